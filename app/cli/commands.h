@@ -1,0 +1,16 @@
+#pragma once
+// The verbs of budledger-cli. Each add*Command() declares its subcommand's
+// options on `root` and, when that subcommand is chosen, stores the work to do
+// in `action`; main() runs it after parsing. Exit codes: 0 success, 1 the work
+// failed (bad input, a check that did not hold), 2 a usage error.
+#include <CLI/CLI.hpp>
+
+#include <functional>
+
+namespace budledger::cli {
+
+using Action = std::function<int()>;
+
+void addSummaryCommand(CLI::App& root, Action& action);
+
+}  // namespace budledger::cli

@@ -1,0 +1,219 @@
+#include "core/store/project.h"
+
+#include <fmt/format.h>
+
+#include <chrono>
+#include <ctime>
+#include <filesystem>
+
+#include "core/store/schema.h"
+
+namespace budledger::store {
+
+Project::Project(std::string path, std::unique_ptr<Database> db)
+    : path_(std::move(path)), db_(std::move(db)) {}
+
+Project Project::create(const std::string& path) {
+  if (std::filesystem::exists(path))
+    throw StoreError(fmt::format("project '{}' already exists; refusing to overwrite it", path));
+  auto db = std::make_unique<Database>(path, Database::Access::ReadWrite);
+  migrate(*db);
+  Project p(path, std::move(db));
+  p.setMeta("created_utc", utcNowIso());
+  return p;
+}
+
+Project Project::open(const std::string& path, Database::Access access) {
+  if (!std::filesystem::exists(path))
+    throw StoreError(fmt::format("project '{}' does not exist", path));
+  auto db = std::make_unique<Database>(path, access);
+  if (access == Database::Access::ReadWrite) {
+    migrate(*db);
+  } else {
+    auto st = db->prepare("PRAGMA user_version");
+    st.step();
+    if (st.integer(0) != latestSchemaVersion())
+      throw StoreError(fmt::format(
+          "project '{}' has schema version {}; open it writable to migrate", path, st.integer(0)));
+  }
+  return Project(path, std::move(db));
+}
+
+void Project::setMeta(const std::string& key, const std::string& value) {
+  db_->prepare(
+         "INSERT INTO meta(key, value) VALUES (?1, ?2) "
+         "ON CONFLICT(key) DO UPDATE SET value = excluded.value")
+      .bind(1, key)
+      .bind(2, value)
+      .run();
+}
+
+std::optional<std::string> Project::meta(const std::string& key) {
+  auto st = db_->prepare("SELECT value FROM meta WHERE key = ?1");
+  st.bind(1, key);
+  if (st.step()) return st.text(0);
+  return std::nullopt;
+}
+
+int Project::addPosition(const PositionRecord& p) {
+  db_->prepare(
+         "INSERT INTO positions(name, group_name, frame_count, width, height) "
+         "VALUES (?1, ?2, ?3, ?4, ?5)")
+      .bind(1, p.name)
+      .bind(2, p.group)
+      .bind(3, p.frameCount)
+      .bind(4, p.width)
+      .bind(5, p.height)
+      .run();
+  return static_cast<int>(db_->lastInsertId());
+}
+
+std::vector<PositionRecord> Project::positions() {
+  std::vector<PositionRecord> out;
+  auto st = db_->prepare(
+      "SELECT id, name, group_name, frame_count, width, height FROM positions ORDER BY id");
+  while (st.step())
+    out.push_back(
+        {st.integer(0), st.text(1), st.text(2), st.integer(3), st.integer(4), st.integer(5)});
+  return out;
+}
+
+void Project::addInput(const InputRecord& in) {
+  db_->prepare("INSERT INTO inputs(position_id, path, size_bytes, sha256) VALUES (?1,?2,?3,?4)")
+      .bind(1, in.position)
+      .bind(2, in.path)
+      .bind(3, in.sizeBytes)
+      .bind(4, in.sha256)
+      .run();
+}
+
+std::vector<InputRecord> Project::inputs() {
+  std::vector<InputRecord> out;
+  auto st = db_->prepare("SELECT position_id, path, size_bytes, sha256 FROM inputs ORDER BY id");
+  while (st.step()) out.push_back({st.integer(0), st.text(1), st.int64(2), st.text(3)});
+  return out;
+}
+
+void Project::replaceTraps(int position, const std::vector<TrapRecord>& traps) {
+  Transaction tx(*db_);
+  db_->prepare("DELETE FROM traps WHERE position_id = ?1").bind(1, position).run();
+  auto ins = db_->prepare(
+      "INSERT INTO traps(position_id, trap_id, row, col, x, y, edge) VALUES "
+      "(?1,?2,?3,?4,?5,?6,?7)");
+  for (const auto& t : traps) {
+    ins.bind(1, position).bind(2, t.trap).bind(3, t.row).bind(4, t.col).bind(5, t.x).bind(6, t.y);
+    ins.bind(7, t.edge ? 1 : 0).run();
+  }
+  tx.commit();
+}
+
+std::vector<TrapRecord> Project::traps(std::optional<int> position) {
+  std::vector<TrapRecord> out;
+  auto st = db_->prepare(
+      "SELECT position_id, trap_id, row, col, x, y, edge FROM traps "
+      "WHERE ?1 IS NULL OR position_id = ?1 ORDER BY position_id, trap_id");
+  if (position) st.bind(1, *position);
+  while (st.step())
+    out.push_back({st.integer(0), st.integer(1), st.integer(2), st.integer(3), st.real(4),
+                   st.real(5), st.integer(6) != 0});
+  return out;
+}
+
+void Project::replaceDrift(int position, const std::vector<DriftRecord>& drift) {
+  Transaction tx(*db_);
+  db_->prepare("DELETE FROM drift WHERE position_id = ?1").bind(1, position).run();
+  auto ins = db_->prepare(
+      "INSERT INTO drift(position_id, frame, dx, dy, confidence, focus) VALUES "
+      "(?1,?2,?3,?4,?5,?6)");
+  for (const auto& d : drift)
+    ins.bind(1, position)
+        .bind(2, d.frame)
+        .bind(3, d.dx)
+        .bind(4, d.dy)
+        .bind(5, d.confidence)
+        .bind(6, d.focus)
+        .run();
+  tx.commit();
+}
+
+std::vector<DriftRecord> Project::drift(int position) {
+  std::vector<DriftRecord> out;
+  auto st = db_->prepare(
+      "SELECT position_id, frame, dx, dy, confidence, focus FROM drift WHERE position_id = ?1 "
+      "ORDER BY frame");
+  st.bind(1, position);
+  while (st.step())
+    out.push_back({st.integer(0), st.integer(1), st.real(2), st.real(3), st.real(4), st.real(5)});
+  return out;
+}
+
+std::int64_t Project::addEngineRun(const EngineRun& run, const std::vector<Event>& proposals) {
+  Transaction tx(*db_);
+  db_->prepare(
+         "INSERT INTO engine_runs(started_utc, engine_version, parameters_json, input_digest) "
+         "VALUES (?1, ?2, ?3, ?4)")
+      .bind(1, run.startedUtc.empty() ? utcNowIso() : run.startedUtc)
+      .bind(2, run.engineVersion)
+      .bind(3, run.parametersJson)
+      .bind(4, run.inputDigest)
+      .run();
+  const std::int64_t runId = db_->lastInsertId();
+  auto ins = db_->prepare(
+      "INSERT INTO proposals(run_id, position_id, trap_id, frame, kind, confidence) "
+      "VALUES (?1,?2,?3,?4,?5,?6)");
+  for (const auto& e : proposals)
+    ins.bind(1, runId)
+        .bind(2, e.position)
+        .bind(3, e.trap)
+        .bind(4, e.frame)
+        .bind(5, toString(e.kind))
+        .bind(6, e.confidence)
+        .run();
+  tx.commit();
+  return runId;
+}
+
+std::optional<EngineRun> Project::latestRun() {
+  auto st = db_->prepare(
+      "SELECT id, started_utc, engine_version, parameters_json, input_digest FROM engine_runs "
+      "ORDER BY id DESC LIMIT 1");
+  if (!st.step()) return std::nullopt;
+  return EngineRun{st.int64(0), st.text(1), st.text(2), st.text(3), st.text(4)};
+}
+
+std::vector<Event> Project::proposals(std::optional<std::int64_t> run) {
+  if (!run) {
+    auto latest = latestRun();
+    if (!latest) return {};
+    run = latest->id;
+  }
+  std::vector<Event> out;
+  auto st = db_->prepare(
+      "SELECT id, position_id, trap_id, frame, kind, confidence FROM proposals WHERE run_id = ?1 "
+      "ORDER BY position_id, trap_id, frame, id");
+  st.bind(1, *run);
+  while (st.step()) {
+    Event e;
+    e.id = st.int64(0);
+    e.position = st.integer(1);
+    e.trap = st.integer(2);
+    e.frame = st.integer(3);
+    e.kind = eventKindFromString(st.text(4)).value_or(EventKind::Bud);
+    e.confidence = st.real(5);
+    out.push_back(e);
+  }
+  return out;
+}
+
+std::string utcNowIso() {
+  using namespace std::chrono;
+  const auto now = system_clock::now();
+  const auto ms = duration_cast<milliseconds>(now.time_since_epoch()).count() % 1000;
+  const std::time_t t = system_clock::to_time_t(now);
+  std::tm tm{};
+  gmtime_r(&t, &tm);
+  return fmt::format("{:04}-{:02}-{:02}T{:02}:{:02}:{:02}.{:03}Z", tm.tm_year + 1900, tm.tm_mon + 1,
+                     tm.tm_mday, tm.tm_hour, tm.tm_min, tm.tm_sec, ms);
+}
+
+}  // namespace budledger::store

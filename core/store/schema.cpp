@@ -1,0 +1,100 @@
+#include "core/store/schema.h"
+
+#include <fmt/format.h>
+
+#include <array>
+#include <string_view>
+
+namespace budledger::store {
+namespace {
+
+// Never edit a migration that has shipped: add a new one.
+constexpr std::array<std::string_view, 1> kMigrations{
+    // 1: the first project file.
+    R"sql(
+CREATE TABLE meta (
+  key   TEXT PRIMARY KEY,
+  value TEXT NOT NULL
+);
+CREATE TABLE positions (
+  id          INTEGER PRIMARY KEY,
+  name        TEXT NOT NULL UNIQUE,
+  group_name  TEXT NOT NULL DEFAULT '',
+  frame_count INTEGER NOT NULL DEFAULT 0,
+  width       INTEGER NOT NULL DEFAULT 0,
+  height      INTEGER NOT NULL DEFAULT 0
+);
+CREATE TABLE inputs (
+  id          INTEGER PRIMARY KEY,
+  position_id INTEGER NOT NULL REFERENCES positions(id),
+  path        TEXT NOT NULL,
+  size_bytes  INTEGER NOT NULL,
+  sha256      TEXT NOT NULL
+);
+CREATE TABLE engine_runs (
+  id              INTEGER PRIMARY KEY,
+  started_utc     TEXT NOT NULL,
+  engine_version  TEXT NOT NULL,
+  parameters_json TEXT NOT NULL,
+  input_digest    TEXT NOT NULL
+);
+CREATE TABLE traps (
+  position_id INTEGER NOT NULL REFERENCES positions(id),
+  trap_id     INTEGER NOT NULL,
+  row         INTEGER NOT NULL,
+  col         INTEGER NOT NULL,
+  x           REAL NOT NULL,
+  y           REAL NOT NULL,
+  edge        INTEGER NOT NULL DEFAULT 0,
+  PRIMARY KEY (position_id, trap_id)
+);
+CREATE TABLE drift (
+  position_id INTEGER NOT NULL REFERENCES positions(id),
+  frame       INTEGER NOT NULL,
+  dx          REAL NOT NULL,
+  dy          REAL NOT NULL,
+  confidence  REAL NOT NULL,
+  focus       REAL NOT NULL,
+  PRIMARY KEY (position_id, frame)
+);
+CREATE TABLE proposals (
+  id          INTEGER PRIMARY KEY,
+  run_id      INTEGER NOT NULL REFERENCES engine_runs(id),
+  position_id INTEGER NOT NULL REFERENCES positions(id),
+  trap_id     INTEGER NOT NULL,
+  frame       INTEGER NOT NULL,
+  kind        TEXT NOT NULL CHECK (kind IN ('bud','separation','death','washout','arrival')),
+  confidence  REAL NOT NULL CHECK (confidence >= 0 AND confidence <= 1)
+);
+CREATE INDEX proposals_by_trap ON proposals(run_id, position_id, trap_id, frame);
+)sql",
+};
+
+}  // namespace
+
+int latestSchemaVersion() { return static_cast<int>(kMigrations.size()); }
+
+void migrate(Database& db) {
+  auto st = db.prepare("PRAGMA user_version");
+  st.step();
+  const int current = st.integer(0);
+  if (current > latestSchemaVersion())
+    throw StoreError(fmt::format(
+        "project file has schema version {}, newer than this BudLedger understands ({})", current,
+        latestSchemaVersion()));
+  if (current == latestSchemaVersion()) return;
+  if (current == 0) {
+    // A non-empty file without our version is someone else's database.
+    auto tables = db.prepare("SELECT count(*) FROM sqlite_master");
+    tables.step();
+    if (tables.integer(0) != 0)
+      throw StoreError("file is an SQLite database but not a BudLedger project");
+  }
+  Transaction tx(db);
+  for (int v = current; v < latestSchemaVersion(); ++v)
+    db.exec(kMigrations[static_cast<size_t>(v)]);
+  db.exec(fmt::format("PRAGMA user_version = {}", latestSchemaVersion()));
+  tx.commit();
+}
+
+}  // namespace budledger::store

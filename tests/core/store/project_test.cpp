@@ -1,0 +1,86 @@
+#include "core/store/project.h"
+
+#include <gtest/gtest.h>
+
+#include <filesystem>
+#include <fstream>
+
+#include "core/store/schema.h"
+
+namespace budledger::store {
+namespace {
+
+class ProjectTest : public ::testing::Test {
+ protected:
+  void SetUp() override {
+    dir_ = std::filesystem::temp_directory_path() /
+           ("budledger_store_" + std::to_string(::testing::UnitTest::GetInstance()->random_seed()) +
+            "_" + ::testing::UnitTest::GetInstance()->current_test_info()->name());
+    std::filesystem::remove_all(dir_);
+    std::filesystem::create_directories(dir_);
+  }
+  void TearDown() override { std::filesystem::remove_all(dir_); }
+  std::string file(const char* name) const { return (dir_ / name).string(); }
+  std::filesystem::path dir_;
+};
+
+TEST_F(ProjectTest, CreateStoresSchemaVersionAndMetadata) {
+  {
+    auto p = Project::create(file("a.budledger"));
+    p.setMeta("interval_min", "10");
+  }
+  auto p = Project::open(file("a.budledger"));
+  EXPECT_EQ(p.meta("interval_min"), "10");
+  EXPECT_TRUE(p.meta("created_utc").has_value());
+  auto st = p.db().prepare("PRAGMA user_version");
+  ASSERT_TRUE(st.step());
+  EXPECT_EQ(st.integer(0), latestSchemaVersion());
+}
+
+TEST_F(ProjectTest, RefusesToOverwrite) {
+  Project::create(file("a.budledger"));
+  EXPECT_THROW(Project::create(file("a.budledger")), StoreError);
+}
+
+TEST_F(ProjectTest, RefusesForeignFiles) {
+  { std::ofstream(file("not.budledger")) << "this is not sqlite at all, just text\n"; }
+  EXPECT_THROW(Project::open(file("not.budledger")), StoreError);
+  EXPECT_THROW(Project::open(file("missing.budledger")), StoreError);
+}
+
+TEST_F(ProjectTest, TrapsAndProposalsRoundTrip) {
+  auto p = Project::create(file("a.budledger"));
+  const int pos = p.addPosition({0, "pos01", "control", 240, 1000, 700});
+  p.replaceTraps(pos, {{pos, 0, 0, 0, 50.5, 60.25, false}, {pos, 1, 0, 1, 150.0, 60.0, true}});
+  Event e;
+  e.position = pos;
+  e.trap = 1;
+  e.frame = 12;
+  e.kind = EventKind::Separation;
+  e.confidence = 0.875;
+  const auto run = p.addEngineRun({0, "", "0.1.0", "{}", "abc"}, {e});
+  EXPECT_GT(run, 0);
+  const auto traps = p.traps(pos);
+  ASSERT_EQ(traps.size(), 2u);
+  EXPECT_DOUBLE_EQ(traps[0].y, 60.25);
+  EXPECT_TRUE(traps[1].edge);
+  const auto props = p.proposals();
+  ASSERT_EQ(props.size(), 1u);
+  EXPECT_EQ(props[0].kind, EventKind::Separation);
+  EXPECT_DOUBLE_EQ(props[0].confidence, 0.875);
+  EXPECT_GT(props[0].id, 0);
+}
+
+TEST_F(ProjectTest, ProposalConstraintRejectsBadConfidenceAtomically) {
+  auto p = Project::create(file("a.budledger"));
+  const int pos = p.addPosition({0, "pos01", "", 10, 10, 10});
+  Event good;
+  good.position = pos;
+  Event bad = good;
+  bad.confidence = 1.5;
+  EXPECT_THROW(p.addEngineRun({0, "", "0.1.0", "{}", ""}, {good, bad}), StoreError);
+  EXPECT_FALSE(p.latestRun().has_value());  // the run was rolled back whole
+}
+
+}  // namespace
+}  // namespace budledger::store
