@@ -31,7 +31,7 @@ class TrapWalker {
   void feed(const Event& e) {
     switch (e.kind) {
       case EventKind::Arrival:
-        if (open_) close(std::max(open_->firstFrame, e.frame - 1), Outcome::Washout);
+        if (isOpen_) close(std::max(open_.firstFrame, e.frame - 1), Outcome::Washout);
         open(e.frame);
         return;
       case EventKind::Bud:
@@ -40,11 +40,11 @@ class TrapWalker {
           out_.ignored.push_back(e.id);
           return;
         }
-        if (!open_) open(0);
+        if (!isOpen_) open(0);
         if (e.kind == EventKind::Bud)
-          open_->budFrames.push_back(e.frame);
+          open_.budFrames.push_back(e.frame);
         else
-          open_->separationFrames.push_back(e.frame);
+          open_.separationFrames.push_back(e.frame);
         return;
       case EventKind::Death:
       case EventKind::Washout:
@@ -52,30 +52,32 @@ class TrapWalker {
           out_.ignored.push_back(e.id);
           return;
         }
-        if (!open_) open(0);
+        if (!isOpen_) open(0);
         if (e.kind == EventKind::Death) {
           // Keep the tenure open-but-dead until the next arrival or the end:
           // a dead mother usually stays in the cup.
           deathFrame_ = e.frame;
           dead_ = true;
         } else {
-          close(e.frame, Outcome::Washout);
+          // A washout's frame is the first frame without the mother.
+          close(e.frame - 1, Outcome::Washout);
         }
         return;
     }
   }
 
   void finish() {
-    if (open_) close(lastFrame_, Outcome::EndOfImaging);
+    if (isOpen_) close(lastFrame_, Outcome::EndOfImaging);
   }
 
  private:
   void open(int frame) {
     open_ = Tenure{};
-    open_->position = position_;
-    open_->trap = trap_;
-    open_->mother = nextMother_++;
-    open_->firstFrame = frame;
+    isOpen_ = true;
+    open_.position = position_;
+    open_.trap = trap_;
+    open_.mother = nextMother_++;
+    open_.firstFrame = frame;
     dead_ = false;
   }
 
@@ -84,11 +86,12 @@ class TrapWalker {
       outcome = Outcome::Death;
       frame = deathFrame_;
     }
-    open_->lastFrame = std::max(open_->firstFrame, frame);
-    open_->outcome = outcome;
-    open_->divisions = static_cast<int>(open_->separationFrames.size());
-    out_.tenures.push_back(std::move(*open_));
-    open_.reset();
+    open_.lastFrame = std::max(open_.firstFrame, frame);
+    open_.outcome = outcome;
+    open_.divisions = static_cast<int>(open_.separationFrames.size());
+    out_.tenures.push_back(std::move(open_));
+    open_ = Tenure{};
+    isOpen_ = false;
     dead_ = false;
   }
 
@@ -96,7 +99,8 @@ class TrapWalker {
   int trap_;
   int lastFrame_;
   LineageResult& out_;
-  std::optional<Tenure> open_;
+  Tenure open_;
+  bool isOpen_ = false;
   bool dead_ = false;
   int deathFrame_ = 0;
   int nextMother_ = 0;

@@ -9,8 +9,10 @@
 //  - A tenure opens at an arrival, or implicitly at frame 0 when the trap's
 //    first call is about a mother already there (bud, separation, death,
 //    washout before any arrival).
-//  - It closes at death (outcome death), washout (censored) or, with neither,
-//    at the last frame (censored, end of imaging). An arrival while a tenure is
+//  - It closes at death (outcome death; last frame = the death frame), washout
+//    (censored; a washout's frame is the first frame without the mother, so
+//    the last frame is the one before) or, with neither, at the last frame of
+//    the movie (censored, end of imaging). An arrival while a tenure is
 //    open closes the old tenure one frame earlier as a washout: a new mother
 //    can only take the cup when the old one has gone.
 //  - Death is absorbing: later buds or separations in the same tenure are

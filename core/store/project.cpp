@@ -181,6 +181,53 @@ std::optional<EngineRun> Project::latestRun() {
   return EngineRun{st.int64(0), st.text(1), st.text(2), st.text(3), st.text(4)};
 }
 
+void Project::addMeasurements(std::int64_t run, const std::vector<MeasurementRecord>& rows) {
+  Transaction tx(*db_);
+  auto ins = db_->prepare(
+      "INSERT OR REPLACE INTO measurements(run_id, position_id, trap_id, frame, occupancy, "
+      "p_empty, "
+      "p_single, p_budded, p_crowded, cell_count, features_json) "
+      "VALUES (?1,?2,?3,?4,?5,?6,?7,?8,?9,?10,?11)");
+  for (const auto& m : rows)
+    ins.bind(1, run)
+        .bind(2, m.position)
+        .bind(3, m.trap)
+        .bind(4, m.frame)
+        .bind(5, toString(m.occupancy))
+        .bind(6, m.pEmpty)
+        .bind(7, m.pSingle)
+        .bind(8, m.pBudded)
+        .bind(9, m.pCrowded)
+        .bind(10, m.cellCount)
+        .bind(11, m.featuresJson)
+        .run();
+  tx.commit();
+}
+
+std::vector<MeasurementRecord> Project::measurements(std::int64_t run, int position, int trap) {
+  std::vector<MeasurementRecord> out;
+  auto st = db_->prepare(
+      "SELECT position_id, trap_id, frame, occupancy, p_empty, p_single, p_budded, p_crowded, "
+      "cell_count, features_json FROM measurements WHERE run_id = ?1 AND position_id = ?2 AND "
+      "trap_id = ?3 ORDER BY frame");
+  st.bind(1, run).bind(2, position).bind(3, trap);
+  while (st.step()) {
+    MeasurementRecord m;
+    m.position = st.integer(0);
+    m.trap = st.integer(1);
+    m.frame = st.integer(2);
+    m.occupancy = occupancyFromString(st.text(3)).value_or(Occupancy::Empty);
+    m.pEmpty = st.real(4);
+    m.pSingle = st.real(5);
+    m.pBudded = st.real(6);
+    m.pCrowded = st.real(7);
+    m.cellCount = st.integer(8);
+    m.featuresJson = st.text(9);
+    out.push_back(std::move(m));
+  }
+  return out;
+}
+
 std::vector<Event> Project::proposals(std::optional<std::int64_t> run) {
   if (!run) {
     auto latest = latestRun();

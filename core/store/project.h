@@ -49,6 +49,18 @@ struct DriftRecord {
   double focus = 0;
 };
 
+// The engine's per-trap-frame reading: occupancy with class probabilities and
+// the cells it measured (features as JSON, documented in docs/project-file.md).
+struct MeasurementRecord {
+  int position = 0;
+  int trap = 0;
+  int frame = 0;
+  Occupancy occupancy = Occupancy::Empty;
+  double pEmpty = 0, pSingle = 0, pBudded = 0, pCrowded = 0;
+  int cellCount = 0;
+  std::string featuresJson = "{}";
+};
+
 struct EngineRun {
   std::int64_t id = 0;
   std::string startedUtc;
@@ -83,6 +95,10 @@ class Project {
   // A new engine run with its proposals, in one transaction.
   std::int64_t addEngineRun(const EngineRun& run, const std::vector<Event>& proposals);
   std::optional<EngineRun> latestRun();
+  // Measurements of a run, in one transaction (replacing that run's rows for
+  // the same trap-frames).
+  void addMeasurements(std::int64_t run, const std::vector<MeasurementRecord>& rows);
+  std::vector<MeasurementRecord> measurements(std::int64_t run, int position, int trap);
   // Proposals of a run (default: the latest), ordered by position, trap, frame.
   std::vector<Event> proposals(std::optional<std::int64_t> run = std::nullopt);
 

@@ -66,6 +66,20 @@ CREATE TABLE proposals (
   kind        TEXT NOT NULL CHECK (kind IN ('bud','separation','death','washout','arrival')),
   confidence  REAL NOT NULL CHECK (confidence >= 0 AND confidence <= 1)
 );
+CREATE TABLE measurements (
+  run_id        INTEGER NOT NULL REFERENCES engine_runs(id),
+  position_id   INTEGER NOT NULL REFERENCES positions(id),
+  trap_id       INTEGER NOT NULL,
+  frame         INTEGER NOT NULL,
+  occupancy     TEXT NOT NULL CHECK (occupancy IN ('empty','single','budded','crowded')),
+  p_empty       REAL NOT NULL,
+  p_single      REAL NOT NULL,
+  p_budded      REAL NOT NULL,
+  p_crowded     REAL NOT NULL,
+  cell_count    INTEGER NOT NULL,
+  features_json TEXT NOT NULL DEFAULT '{}',
+  PRIMARY KEY (run_id, position_id, trap_id, frame)
+);
 CREATE INDEX proposals_by_trap ON proposals(run_id, position_id, trap_id, frame);
 )sql",
 };

@@ -34,7 +34,7 @@ TEST(Lineage, WashoutCensorsAndArrivalOpensNewMother) {
                         60);
   ASSERT_EQ(r.tenures.size(), 2u);
   EXPECT_EQ(r.tenures[0].outcome, Outcome::Washout);
-  EXPECT_EQ(r.tenures[0].lastFrame, 20);
+  EXPECT_EQ(r.tenures[0].lastFrame, 19);
   EXPECT_EQ(r.tenures[0].divisions, 1);
   EXPECT_EQ(r.tenures[1].mother, 1);
   EXPECT_EQ(r.tenures[1].firstFrame, 30);

@@ -82,5 +82,25 @@ TEST_F(ProjectTest, ProposalConstraintRejectsBadConfidenceAtomically) {
   EXPECT_FALSE(p.latestRun().has_value());  // the run was rolled back whole
 }
 
+TEST_F(ProjectTest, MeasurementsRoundTrip) {
+  auto p = Project::create(file("a.budledger"));
+  const int pos = p.addPosition({0, "pos01", "", 10, 10, 10});
+  const auto run = p.addEngineRun({0, "", "0.1.0", "{}", ""}, {});
+  MeasurementRecord m;
+  m.position = pos;
+  m.trap = 3;
+  m.frame = 7;
+  m.occupancy = Occupancy::Budded;
+  m.pBudded = 0.8;
+  m.pSingle = 0.2;
+  m.cellCount = 2;
+  p.addMeasurements(run, {m});
+  const auto back = p.measurements(run, pos, 3);
+  ASSERT_EQ(back.size(), 1u);
+  EXPECT_EQ(back[0].occupancy, Occupancy::Budded);
+  EXPECT_DOUBLE_EQ(back[0].pBudded, 0.8);
+  EXPECT_EQ(back[0].cellCount, 2);
+}
+
 }  // namespace
 }  // namespace budledger::store
