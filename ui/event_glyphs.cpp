@@ -142,9 +142,10 @@ void paint(QPainter& p, QPointF centre, double size, const ReviewEvent& e, Glyph
   const QPainterPath path = shape(e.event.kind, centre, size);
   const QColor colour = kindColour(e.event.kind);
   if (options.selected) {
+    // A dark ring on white: visible on any lane background without hiding the glyph.
     p.setPen(QPen(cursorColour(), 2.0));
-    p.setBrush(QColor(0xF0, 0xE4, 0x42, 200));  // Okabe–Ito yellow halo
-    p.drawEllipse(centre, size * 0.85, size * 0.85);
+    p.setBrush(Qt::white);
+    p.drawEllipse(centre, size * 0.78, size * 0.78);
   }
   switch (e.decision) {
     case Decision::Proposed: {

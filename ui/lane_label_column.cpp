@@ -6,6 +6,7 @@
 #include <QWheelEvent>
 #include <numeric>
 
+#include "ui/counted.h"
 #include "ui/event_glyphs.h"
 #include "ui/review_state_mark.h"
 #include "ui/time_strip_view.h"
@@ -59,7 +60,7 @@ void LaneLabelColumn::paintEvent(QPaintEvent* event) {
       p.drawText(QRectF(x, y, width() - x - 6, fm.height()), Qt::AlignLeft | Qt::AlignVCenter,
                  tenures.size() > 1
                      ? tr("%1 divisions, %2 mothers").arg(divisions).arg(tenures.size())
-                     : tr("%n division(s)", nullptr, divisions));
+                     : counted(divisions, tr("%1 division"), tr("%1 divisions")));
     }
     p.fillRect(QRectF(0, band.bottom() + StripGeometry::kLaneGap / 2, width(), 1),
                QColor(0xDD, 0xDD, 0xDD));

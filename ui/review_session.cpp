@@ -95,7 +95,7 @@ const ReviewEvent* ReviewSession::event(std::int64_t id) const {
   return nullptr;
 }
 
-const std::vector<lineage::Tenure>& ReviewSession::tenures(TrapId trap) {
+const std::vector<lineage::Tenure>& ReviewSession::tenures(TrapId trap) const {
   auto it = tenures_.find(trap);
   if (it != tenures_.end()) return it->second;
   std::vector<Event> counted;
@@ -115,7 +115,7 @@ ReviewState ReviewSession::reviewState(TrapId trap) const {
   return open == 0 ? ReviewState::Reviewed : ReviewState::InProgress;
 }
 
-const std::vector<store::MeasurementRecord>& ReviewSession::measurements(TrapId trap) {
+const std::vector<store::MeasurementRecord>& ReviewSession::measurements(TrapId trap) const {
   auto it = measurements_.find(trap);
   if (it != measurements_.end()) return it->second;
   std::vector<store::MeasurementRecord> rows;
@@ -123,7 +123,7 @@ const std::vector<store::MeasurementRecord>& ReviewSession::measurements(TrapId 
   return measurements_.emplace(trap, std::move(rows)).first->second;
 }
 
-const std::vector<store::DriftRecord>& ReviewSession::drift(int positionId) {
+const std::vector<store::DriftRecord>& ReviewSession::drift(int positionId) const {
   auto it = drift_.find(positionId);
   if (it != drift_.end()) return it->second;
   return drift_.emplace(positionId, project_->drift(positionId)).first->second;

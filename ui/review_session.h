@@ -47,12 +47,12 @@ class ReviewSession : public QObject {
   const std::vector<ReviewEvent>& events(TrapId trap) const;
   const ReviewEvent* event(std::int64_t id) const;
   // Tenures of one trap, and of every trap (cached; recomputed after changes).
-  const std::vector<lineage::Tenure>& tenures(TrapId trap);
+  const std::vector<lineage::Tenure>& tenures(TrapId trap) const;
   ReviewState reviewState(TrapId trap) const;
 
   // The engine's per-frame readings of the latest run (cached per trap).
-  const std::vector<store::MeasurementRecord>& measurements(TrapId trap);
-  const std::vector<store::DriftRecord>& drift(int position);
+  const std::vector<store::MeasurementRecord>& measurements(TrapId trap) const;
+  const std::vector<store::DriftRecord>& drift(int position) const;
 
  signals:
   // The events of one trap changed (edit, undo, redo, another view's action).
@@ -68,9 +68,10 @@ class ReviewSession : public QObject {
   std::vector<store::PositionRecord> positions_;
   std::map<int, std::vector<store::TrapRecord>> traps_;
   std::unordered_map<TrapId, std::vector<ReviewEvent>> events_;
-  std::unordered_map<TrapId, std::vector<lineage::Tenure>> tenures_;
-  std::unordered_map<TrapId, std::vector<store::MeasurementRecord>> measurements_;
-  std::map<int, std::vector<store::DriftRecord>> drift_;
+  // Derived caches, filled on first use (hence mutable).
+  mutable std::unordered_map<TrapId, std::vector<lineage::Tenure>> tenures_;
+  mutable std::unordered_map<TrapId, std::vector<store::MeasurementRecord>> measurements_;
+  mutable std::map<int, std::vector<store::DriftRecord>> drift_;
   std::optional<double> intervalMinutes_;
   std::optional<std::int64_t> run_;
 };

@@ -25,7 +25,7 @@ QRectF StripGeometry::stripRect(int lane, double width) const {
 }
 
 QRectF StripGeometry::eventRect(int lane, double width) const {
-  return {0, laneTop(lane) + stripHeight_, width, kEventLaneHeight};
+  return {0, laneTop(lane) + stripHeight_, width, eventLaneHeight()};
 }
 
 QRectF StripGeometry::slotRect(const TimeAxis& axis, int lane, int frame) const {
@@ -38,7 +38,7 @@ StripGeometry::Hit StripGeometry::hitAt(double y) const {
   if (lane >= laneCount_) return {};
   const double inLane = y - laneTop(lane);
   if (inLane < stripHeight_) return {lane, Part::Strip};
-  if (inLane < stripHeight_ + kEventLaneHeight) return {lane, Part::Events};
+  if (inLane < stripHeight_ + eventLaneHeight()) return {lane, Part::Events};
   return {lane, Part::Gap};
 }
 

@@ -26,6 +26,8 @@ class StripGeometry {
   // the kymograph, whose one-pixel profiles stay legible down to 1.5 px.
   static constexpr double kCropModeMinPixelsPerFrame = 16.0;
   static constexpr double kEventLaneHeight = 26.0;
+  // Zoomed out, calls crowd: two staggered rows of glyphs need more height.
+  static constexpr double kCompactEventLaneHeight = 32.0;
   static constexpr double kLaneGap = 6.0;
   static constexpr double kKymographHeight = 48.0;
   static constexpr double kMinCropHeight = 40.0;
@@ -46,7 +48,10 @@ class StripGeometry {
   StripMode mode() const { return mode_; }
   int laneCount() const { return laneCount_; }
   double stripHeight() const { return stripHeight_; }
-  double laneHeight() const { return stripHeight_ + kEventLaneHeight + kLaneGap; }
+  double eventLaneHeight() const {
+    return mode_ == StripMode::Kymograph ? kCompactEventLaneHeight : kEventLaneHeight;
+  }
+  double laneHeight() const { return stripHeight_ + eventLaneHeight() + kLaneGap; }
   double contentHeight() const { return laneCount_ * laneHeight(); }
   double laneTop(int lane) const { return lane * laneHeight(); }
 

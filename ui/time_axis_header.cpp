@@ -3,6 +3,7 @@
 #include <QMouseEvent>
 #include <QPainter>
 #include <QScrollBar>
+#include <algorithm>
 
 #include "ui/event_glyphs.h"
 #include "ui/time_strip_view.h"
@@ -48,41 +49,47 @@ void TimeAxisHeader::paintEvent(QPaintEvent* event) {
   const double gap =
       std::max(fm.horizontalAdvance(widest), sfm.horizontalAdvance(QStringLiteral("0000"))) + 18.0;
   const double ppf = axis.pixelsPerFrame();
+
+  // The current frame's flag is placed first so tick labels can make room for it.
+  const int cf = view_->cursorFrame();
+  const double cx = left + axis.frameCentre(cf) - hs;
+  const bool flagShown = cx >= left - 2 && cx <= width() + 2 && axis.frameCount() > 0;
+  QFont bold = font();
+  bold.setBold(true);
+  const QFontMetrics bfm(bold);
+  const QString clockText = axis.clockLabel(cf);
+  const QString label =
+      clockText.isEmpty() ? tr("frame %1").arg(cf) : tr("%1 · frame %2").arg(clockText).arg(cf);
+  const int fw = bfm.horizontalAdvance(label) + 14;
+  const double fx = std::clamp(cx - fw / 2.0, double(left), double(std::max(left, width() - fw)));
+  const QRectF flag(fx, 3, fw, bfm.height() + 6);
+
   for (const auto& t : axis.ticks(x0, x1, gap)) {
     const double x = left + t.x - hs + ppf / 2;
-    if (t.major) {
-      p.fillRect(QRectF(x, tickTop, 1, 8), QColor(0x44, 0x44, 0x44));
-      p.setPen(QColor(0x22, 0x22, 0x22));
-      const QRectF box(x - gap / 2, rowClock, gap, fm.height());
-      if (clock) {
-        p.setFont(font());
-        p.drawText(box, Qt::AlignCenter, axis.clockLabel(t.frame));
-      }
-      p.setFont(small);
-      p.setPen(QColor(0x66, 0x66, 0x66));
-      p.drawText(QRectF(x - gap / 2, clock ? rowFrame : rowClock, gap, sfm.height()),
-                 Qt::AlignCenter, QString::number(t.frame));
-    } else {
+    if (!t.major) {
       p.fillRect(QRectF(x, tickTop + 4, 1, 4), QColor(0x99, 0x99, 0x99));
+      continue;
     }
+    p.fillRect(QRectF(x, tickTop, 1, 8), QColor(0x44, 0x44, 0x44));
+    const QRectF box(x - gap / 2, rowClock, gap, rowFrame + sfm.height() - rowClock);
+    // A label cut by an edge or hidden under the flag is noise: leave it out.
+    if (box.left() < left || box.right() > width()) continue;
+    if (flagShown && box.adjusted(4, 0, -4, 0).intersects(flag)) continue;
+    if (clock) {
+      p.setFont(font());
+      p.setPen(QColor(0x22, 0x22, 0x22));
+      p.drawText(QRectF(box.left(), rowClock, gap, fm.height()), Qt::AlignCenter,
+                 axis.clockLabel(t.frame));
+    }
+    p.setFont(small);
+    p.setPen(QColor(0x66, 0x66, 0x66));
+    p.drawText(QRectF(box.left(), clock ? rowFrame : rowClock, gap, sfm.height()), Qt::AlignCenter,
+               QString::number(t.frame));
   }
   p.fillRect(QRect(left, height() - 1, width() - left, 1), QColor(0xBB, 0xBB, 0xBB));
 
-  // The current frame: a dark flag with its frame and time, kept inside the axis.
-  const int cf = view_->cursorFrame();
-  const double cx = left + axis.frameCentre(cf) - hs;
-  if (cx >= left - 2 && cx <= width() + 2 && axis.frameCount() > 0) {
-    QFont bold = font();
-    bold.setBold(true);
+  if (flagShown) {
     p.setFont(bold);
-    const QFontMetrics bfm(bold);
-    const QString clockText = axis.clockLabel(cf);
-    const QString label =
-        clockText.isEmpty() ? tr("frame %1").arg(cf) : tr("%1 · frame %2").arg(clockText).arg(cf);
-    const int w = bfm.horizontalAdvance(label) + 14;
-    double bx = cx - w / 2.0;
-    bx = std::clamp(bx, double(left), double(width() - w));
-    const QRectF flag(bx, 3, w, bfm.height() + 6);
     p.setRenderHint(QPainter::Antialiasing);
     p.setPen(Qt::NoPen);
     p.setBrush(glyphs::cursorColour());

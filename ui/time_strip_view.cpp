@@ -262,7 +262,8 @@ void TimeStripView::onThumbnailReady(const ThumbnailKey& key) {
 }
 
 double TimeStripView::glyphSize() const {
-  return std::clamp(axis_.pixelsPerFrame() * 0.9, 13.0, 18.0);
+  if (geometry_.mode() == StripMode::Kymograph) return 13.0;
+  return std::clamp(axis_.pixelsPerFrame() * 0.5, 15.0, 19.0);
 }
 
 const ReviewEvent* TimeStripView::eventNear(int lane, double contentX) const {
@@ -410,18 +411,34 @@ void TimeStripView::paintEvents(QPainter& p, int lane, std::pair<int, int> frame
     }
   QFont small = font();
   small.setPointSizeF(std::max(7.0, font().pointSizeF() * 0.8));
+  // When zoomed out, neighbouring calls (a bud just after a separation) would
+  // sit on each other: alternate colliding glyphs between an upper and a lower row.
+  const double rowShift = geometry_.mode() == StripMode::Kymograph ? size * 0.36 : 0.0;
+  std::vector<double> rowY(list.size(), cy);
+  if (rowShift > 0) {
+    double lastX = -1e9;
+    bool upper = true;
+    for (size_t i = 0; i < list.size(); ++i) {
+      if (!list[i].counts()) continue;
+      const double x = axis_.frameCentre(list[i].event.frame);
+      upper = x - lastX < size * 0.95 ? !upper : true;
+      rowY[i] = upper ? cy - rowShift : cy + rowShift;
+      lastX = x;
+    }
+  }
   // Rejected first, live calls on top.
   for (int pass = 0; pass < 2; ++pass)
-    for (const auto& e : list) {
+    for (size_t i = 0; i < list.size(); ++i) {
+      const ReviewEvent& e = list[i];
       if (e.event.frame < f0 || e.event.frame > f1) continue;
       if ((pass == 0) == e.counts()) continue;
       const bool dragging = drag_ && drag_->eventId == e.event.id;
       const double x = axis_.frameCentre(dragging ? drag_->toFrame : e.event.frame);
-      glyphs::paint(p, {x, cy}, size, e, {selected_ && *selected_ == e.event.id});
+      glyphs::paint(p, {x, rowY[i]}, size, e, {selected_ && *selected_ == e.event.id});
       if (e.decision == Decision::Proposed && ppf >= 44) {
         p.setFont(small);
         p.setPen(QColor(0x33, 0x33, 0x33));
-        p.drawText(QRectF(x + size * 0.6, lr.top(), ppf, lr.height()),
+        p.drawText(QRectF(x + size * 0.62, lr.top(), ppf - size * 0.62 - 2, lr.height()),
                    Qt::AlignLeft | Qt::AlignVCenter,
                    QStringLiteral("%1%").arg(std::lround(e.event.confidence * 100)));
       }
@@ -430,17 +447,36 @@ void TimeStripView::paintEvents(QPainter& p, int lane, std::pair<int, int> frame
 
 void TimeStripView::paintCursor(QPainter& p, const QRectF& content) {
   const double x = axis_.frameCentre(cursorFrame_);
-  if (x < content.left() - 20 || x > content.right() + 20) return;
-  const QColor c = glyphs::cursorColour();
-  // A dark line with light edges reads on both bright crops and dark backgrounds.
-  p.fillRect(QRectF(x - 2, content.top(), 4, content.height()), QColor(255, 255, 255, 170));
-  p.fillRect(QRectF(x - 1, content.top(), 2, content.height()), c);
-  // The current lane's slot gets a box so the current crop stands out.
   const double ppf = axis_.pixelsPerFrame();
+  if (x < content.left() - ppf - 20 || x > content.right() + ppf + 20) return;
+  const QColor c = glyphs::cursorColour();
+  const QColor halo(255, 255, 255, 170);
+  const auto lanes = geometry_.lanesIn(content.top(), content.bottom());
+  if (geometry_.mode() == StripMode::Crops) {
+    // Over crops a centre line would hide the cells: bracket the current
+    // frame's crop in every lane instead, and draw the line only between strips.
+    const double l = axis_.frameLeft(cursorFrame_), r = l + ppf;
+    for (int lane = lanes.first; lane <= lanes.second; ++lane) {
+      const QRectF s = geometry_.stripRect(lane, 0);
+      p.fillRect(QRectF(l - 2, s.top(), 3, s.height()), halo);
+      p.fillRect(QRectF(r - 1, s.top(), 3, s.height()), halo);
+      p.fillRect(QRectF(l - 1, s.top(), 2, s.height()), c);
+      p.fillRect(QRectF(r - 1, s.top(), 2, s.height()), c);
+      const double gapTop = s.bottom();
+      const double gapBottom = geometry_.laneTop(lane) + geometry_.laneHeight();
+      p.fillRect(QRectF(x - 2, gapTop, 4, gapBottom - gapTop), halo);
+      p.fillRect(QRectF(x - 1, gapTop, 2, gapBottom - gapTop), c);
+    }
+  } else {
+    // A dark line with light edges reads on both bright and dark kymographs.
+    p.fillRect(QRectF(x - 2, content.top(), 4, content.height()), halo);
+    p.fillRect(QRectF(x - 1, content.top(), 2, content.height()), c);
+  }
+  // The current lane's slot gets a heavy box so the current crop stands out.
   const double w = std::max(ppf, 10.0);
   const double top = geometry_.laneTop(cursorLane_);
   const QRectF box(x - w / 2 - 1.5, top + 1.5, w + 3,
-                   geometry_.stripHeight() + StripGeometry::kEventLaneHeight - 3);
+                   geometry_.stripHeight() + geometry_.eventLaneHeight() - 3);
   p.save();
   p.setRenderHint(QPainter::Antialiasing);
   p.setBrush(Qt::NoBrush);
