@@ -18,7 +18,7 @@ constexpr double kWallPathUm = 0.22;
 constexpr double kWallUm = 0.22;
 // Response constants (per µm² and per µm of path), tuned by eye so that a focus
 // contrast of 1 gives rims of roughly ±30% at 0.25 µm/px.
-constexpr double kFocus = 1.1;
+constexpr double kFocus = 1.6;
 constexpr double kEdge = 2.2;
 constexpr double kHalo = 1.6;
 constexpr double kHaloSigmaUm = 1.1;
@@ -122,6 +122,8 @@ Renderer::Renderer(const Device& device, const OpticsParams& optics, int frames,
   device.renderPosts(posts_, cw_, ch_, margin_);
   const float postPath = static_cast<float>(device.params().heightUm * kPostDeltaN * p_.postIndex);
   for (auto& v : posts_) v *= postPath;
+  Rng chipRng = rng.derive("chip");
+  addChipTexture(chipRng);
 
   Rng driftRng = rng.derive("drift");
   makeDrift(driftRng, frames);
@@ -136,6 +138,42 @@ Renderer::Renderer(const Device& device, const OpticsParams& optics, int frames,
     flicker_[static_cast<std::size_t>(k)] = std::max(0.2, f);
     const bool off = k > 0 && lamp.bernoulli(p_.defocusRate);
     defocus_[static_cast<std::size_t>(k)] = off ? p_.defocus * lamp.uniform(0.6, 1.4) : 0.0;
+  }
+}
+
+void Renderer::addChipTexture(Rng& rng) {
+  if (p_.debris <= 0) return;
+  // Surface roughness of the PDMS/glass: smooth noise of a few nm optical path.
+  const std::size_t n = posts_.size();
+  std::vector<float> noise(n), smooth, tmp;
+  const NormalTable& z = normalTable();
+  for (std::size_t i = 0; i < n; i += 4) {
+    std::uint64_t bits = rng.next();
+    for (std::size_t k = i; k < std::min(n, i + 4); ++k, bits >>= 16)
+      noise[k] = z[static_cast<std::uint16_t>(bits & 0xffff)];
+  }
+  const double px = device_.params().pixelUm;
+  gaussianBlur(noise, smooth, tmp, cw_, ch_, 0.5 / px);
+  const float amp = static_cast<float>(0.004 * p_.debris * (0.5 / px));
+  for (std::size_t i = 0; i < n; ++i) posts_[i] += amp * smooth[i];
+  // Debris stuck to the chip: small refractile specks, static relative to the posts.
+  const int specks = static_cast<int>(
+      std::floor(8e-5 * p_.debris * static_cast<double>(n) * px * px / 0.0625 + 0.5));
+  for (int i = 0; i < specks; ++i) {
+    const double sx = rng.uniform(0.0, cw_), sy = rng.uniform(0.0, ch_);
+    const double r = rng.uniform(0.2, 0.7) / px;
+    const double path = rng.uniform(0.03, 0.12);
+    const int x0 = std::max(0, static_cast<int>(sx - r - 1)),
+              x1 = std::min(cw_ - 1, static_cast<int>(sx + r + 1));
+    const int y0 = std::max(0, static_cast<int>(sy - r - 1)),
+              y1 = std::min(ch_ - 1, static_cast<int>(sy + r + 1));
+    for (int y = y0; y <= y1; ++y)
+      for (int x = x0; x <= x1; ++x) {
+        const double q = ((x - sx) * (x - sx) + (y - sy) * (y - sy)) / (r * r);
+        if (q < 1.0)
+          posts_[static_cast<std::size_t>(y) * cw_ + x] +=
+              static_cast<float>(path * std::sqrt(1.0 - q));
+      }
   }
 }
 
@@ -226,7 +264,7 @@ void Renderer::drawCell(const CellBody& c) {
   const double cs = detmath::cos(c.spin), sn = detmath::sin(c.spin);
   auto rotate = [&](double u, double v) { return Vec2{u * cs - v * sn, u * sn + v * cs}; };
   const Vec2 vac = rotate(tex.uniform(-0.25, 0.25), tex.uniform(-0.25, 0.25));
-  const double vacR = tex.uniform(0.35, 0.5);
+  const double vacR = tex.uniform(0.4, 0.6);
   struct Granule {
     Vec2 at;
     double amp, r2;

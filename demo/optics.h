@@ -37,6 +37,7 @@ class Renderer {
  private:
   void makeDrift(Rng& rng, int frames);
   void makeIllumination(Rng& rng);
+  void addChipTexture(Rng& rng);
   void shiftPosts(Vec2 d);
   void drawCell(const CellBody& c);
 

@@ -168,6 +168,8 @@ void visitOptics(OpticsParams& p, V& v) {
   v.num("jump_px", p.jumpPx, 0.0, 100.0, "px", "typical size of a jump", "from memory");
   v.num("dust", p.dust, 0.0, 10.0, "", "amount of out-of-focus dust fixed on the camera",
         "from memory");
+  v.num("debris", p.debris, 0.0, 10.0, "",
+        "amount of debris and surface roughness on the chip (moves with the stage)", "from memory");
 }
 
 template <class V>

@@ -70,7 +70,7 @@ struct BiologyParams {
 struct OpticsParams {
   std::string polarity = "dark-rim";  // dark-rim | bright-rim
   double focusContrast = 1.0;
-  double halo = 0.5;
+  double halo = 0.3;
   double edgeDarkening = 1.0;
   double psfUm = 0.3;
   double cellIndex = 1.0;
@@ -89,6 +89,7 @@ struct OpticsParams {
   double jumpRate = 0.005;
   double jumpPx = 12.0;
   double dust = 1.0;
+  double debris = 1.0;
 };
 
 struct GroupSpec {

@@ -34,8 +34,8 @@ CellBody SceneBuilder::body(const Trap& trap, Vec2 drift, double u, double v,
   c.semiMajor = c.semiMinor = radiusUm * device_.pxPerUm();
   c.axis = device_.across();
   c.thickness = 2.0 * radiusUm;
-  c.vacuole = 0.25;
-  c.granules = 0.05;
+  c.vacuole = 0.18;
+  c.granules = 0.06;
   return c;
 }
 

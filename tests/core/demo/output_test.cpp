@@ -2,6 +2,7 @@
 // own tools read back, and the file layout other parts of the project rely on.
 #include <gtest/gtest.h>
 #include <tiffio.h>
+#include <unistd.h>
 
 #include <array>
 #include <cstdio>
@@ -19,7 +20,9 @@ namespace {
 namespace fs = std::filesystem;
 
 fs::path freshDir(const std::string& name) {
-  const fs::path p = fs::temp_directory_path() / ("budledger-test-demo-" + name);
+  // ctest runs each test in its own process, possibly in parallel: one folder per process.
+  const fs::path p =
+      fs::temp_directory_path() / ("budledger-test-demo-" + std::to_string(getpid()) + "-" + name);
   fs::remove_all(p);
   return p;
 }
