@@ -149,19 +149,18 @@ void paint(QPainter& p, QPointF centre, double size, const ReviewEvent& e, Glyph
   }
   switch (e.decision) {
     case Decision::Proposed: {
-      p.setPen(Qt::NoPen);
-      p.setBrush(Qt::white);
-      p.drawPath(path);
       // Fill level = confidence: a gauge read at a glance, no legend needed.
+      // A gradient with a hard stop fills to the level in one pass (a clip
+      // path per glyph costs more than the rest of the strip).
       const double level = std::clamp(e.event.confidence, 0.0, 1.0);
       const QRectF box = path.boundingRect();
-      const QRectF filled(box.left(), box.bottom() - box.height() * level, box.width(),
-                          box.height() * level);
-      p.setClipPath(path);
-      p.fillRect(filled, colour);
-      p.setClipping(false);
+      QLinearGradient gauge(box.bottomLeft(), box.topLeft());
+      gauge.setColorAt(0, colour);
+      gauge.setColorAt(level, colour);
+      gauge.setColorAt(std::min(1.0, level + 1e-3), Qt::white);
+      gauge.setColorAt(1, Qt::white);
       p.setPen(QPen(colour.darker(130), 1.6));
-      p.setBrush(Qt::NoBrush);
+      p.setBrush(gauge);
       p.drawPath(path);
       break;
     }

@@ -152,7 +152,10 @@ QImage ThumbnailLoader::render(const CropSource& source, const ThumbnailKey& key
   if (key.kind == ThumbnailKind::Crop) {
     const QImage levelled = applyLevels(source.crop(key.trap, key.frame), levels);
     if (levelled.isNull()) return {};
-    return levelled.scaled(key.size, Qt::KeepAspectRatio, Qt::SmoothTransformation);
+    // Converted here, off the UI thread, to the screen's own pixel format:
+    // painting a grey image would convert it on every single paint.
+    return levelled.scaled(key.size, Qt::KeepAspectRatio, Qt::SmoothTransformation)
+        .convertToFormat(QImage::Format_RGB32);
   }
   // Kymograph tile: column i is the axis profile of frame key.frame + i.
   QImage tile(key.size, QImage::Format_Grayscale8);
@@ -173,7 +176,7 @@ QImage ThumbnailLoader::render(const CropSource& source, const ThumbnailKey& key
       tile.scanLine(y)[i] = static_cast<uchar>(std::clamp(std::lround(v), 0L, 255L));
     }
   }
-  return tile;
+  return tile.convertToFormat(QImage::Format_RGB32);
 }
 
 }  // namespace budledger::ui

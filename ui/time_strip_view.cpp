@@ -121,10 +121,12 @@ void TimeStripView::resizeEvent(QResizeEvent* event) {
   relayout();
 }
 
-void TimeStripView::scrollContentsBy(int, int) {
-  viewport()->update();
-  header_->update();
-  labels_->update();
+void TimeStripView::scrollContentsBy(int dx, int dy) {
+  // Everything in the viewport is anchored to content coordinates, so a
+  // scroll is a blit plus a paint of the newly exposed band only.
+  viewport()->scroll(dx, dy);
+  if (dx) header_->update();
+  if (dy) labels_->update();
 }
 
 QPointF TimeStripView::contentPos(QPointF vp) const {
@@ -324,13 +326,11 @@ void TimeStripView::paintStrip(QPainter& p, int lane, std::pair<int, int> frames
   const QRectF strip = geometry_.stripRect(lane, width);
   if (!loader_ || cropSize_.isEmpty()) {
     p.fillRect(strip, kPlaceholder);
-    if (lane ==
-        geometry_.lanesIn(verticalScrollBar()->value(), verticalScrollBar()->value() + 1).first) {
-      p.setPen(QColor(0x55, 0x55, 0x55));
-      const QRectF text(horizontalScrollBar()->value() + 8, strip.top(), 600, strip.height());
-      p.drawText(text, Qt::AlignLeft | Qt::AlignVCenter,
+    // Repeated along the strip at fixed content positions, so it survives scroll blits.
+    p.setPen(QColor(0x55, 0x55, 0x55));
+    for (double x = 8; x < width; x += 900)
+      p.drawText(QRectF(x, strip.top(), 600, strip.height()), Qt::AlignLeft | Qt::AlignVCenter,
                  tr("Images not available for this project: events only."));
-    }
     return;
   }
   if (frames.first > frames.second) return;
@@ -434,7 +434,8 @@ void TimeStripView::paintEvents(QPainter& p, int lane, std::pair<int, int> frame
       if ((pass == 0) == e.counts()) continue;
       const bool dragging = drag_ && drag_->eventId == e.event.id;
       const double x = axis_.frameCentre(dragging ? drag_->toFrame : e.event.frame);
-      glyphs::paint(p, {x, rowY[i]}, size, e, {selected_ && *selected_ == e.event.id});
+      atlas_.draw(p, {x, rowY[i]}, size, e, selected_ && *selected_ == e.event.id,
+                  devicePixelRatioF());
       if (e.decision == Decision::Proposed && ppf >= 44) {
         p.setFont(small);
         p.setPen(QColor(0x33, 0x33, 0x33));

@@ -14,6 +14,7 @@
 #include <optional>
 #include <vector>
 
+#include "ui/glyph_atlas.h"
 #include "ui/review_session.h"
 #include "ui/strip_geometry.h"
 #include "ui/thumbnail_loader.h"
@@ -131,6 +132,7 @@ class TimeStripView : public QAbstractScrollArea {
     int toFrame = 0;
   };
   std::optional<Drag> drag_;
+  GlyphAtlas atlas_;
 };
 
 }  // namespace budledger::ui

@@ -39,8 +39,9 @@ class ReviewPriorityTest : public QObject {
  private slots:
   void confidentWellFormedCallsNeedNobody() {
     // bud 2, separation 12 (100 min later), bud 14, separation 23: all >= 0.9.
-    const auto items = run({call(1, 2, EventKind::Bud, 0.95), call(2, 12, EventKind::Separation, 0.97),
-                            call(3, 14, EventKind::Bud, 0.92), call(4, 23, EventKind::Separation, 0.99)});
+    const auto items =
+        run({call(1, 2, EventKind::Bud, 0.95), call(2, 12, EventKind::Separation, 0.97),
+             call(3, 14, EventKind::Bud, 0.92), call(4, 23, EventKind::Separation, 0.99)});
     QVERIFY(items.empty());
   }
 
@@ -54,8 +55,9 @@ class ReviewPriorityTest : public QObject {
 
   void shortIntervalAndMissingBud() {
     // Separations at 10 and 13: 30 min apart (< 45), and no bud before the second.
-    const auto items = run({call(1, 1, EventKind::Bud, 0.99), call(2, 10, EventKind::Separation, 0.99),
-                            call(3, 13, EventKind::Separation, 0.99)});
+    const auto items =
+        run({call(1, 1, EventKind::Bud, 0.99), call(2, 10, EventKind::Separation, 0.99),
+             call(3, 13, EventKind::Separation, 0.99)});
     QCOMPARE(items.size(), size_t(1));
     QCOMPARE(items[0].eventId, std::int64_t(3));
     QCOMPARE(items[0].reasons, unsigned(kShortInterval | kUnpaired));
@@ -64,8 +66,9 @@ class ReviewPriorityTest : public QObject {
 
   void longIntervalIsFlaggedMildly() {
     // 60 frames of 10 min = 10 h between divisions (> 8 h).
-    const auto items = run({call(1, 1, EventKind::Bud, 0.99), call(2, 10, EventKind::Separation, 0.99),
-                            call(3, 60, EventKind::Bud, 0.99), call(4, 70, EventKind::Separation, 0.99)});
+    const auto items =
+        run({call(1, 1, EventKind::Bud, 0.99), call(2, 10, EventKind::Separation, 0.99),
+             call(3, 60, EventKind::Bud, 0.99), call(4, 70, EventKind::Separation, 0.99)});
     QCOMPARE(items.size(), size_t(1));
     QCOMPARE(items[0].reasons, unsigned(kLongInterval));
   }
@@ -79,17 +82,17 @@ class ReviewPriorityTest : public QObject {
                             call(3, 60, EventKind::Bud, 0.99)},
                            m, d);
     QCOMPARE(items.size(), size_t(2));
-    QCOMPARE(find(items, 1)->reasons, unsigned(kCrowding));   // crowded 2 frames away
+    QCOMPARE(find(items, 1)->reasons, unsigned(kCrowding));      // crowded 2 frames away
     QCOMPARE(find(items, 2)->reasons, unsigned(kRegistration));  // jump 1 frame away
     QVERIFY(!find(items, 3));
   }
 
   void decidedCallsLeaveTheQueueButStillShapeIntervals() {
     // The accepted separation at 10 is the reference for the one at 13.
-    const auto items = run({call(1, 1, EventKind::Bud, 0.5, Decision::Accepted),
-                            call(2, 10, EventKind::Separation, 0.5, Decision::Accepted),
-                            call(3, 12, EventKind::Bud, 0.99),
-                            call(4, 13, EventKind::Separation, 0.99)});
+    const auto items =
+        run({call(1, 1, EventKind::Bud, 0.5, Decision::Accepted),
+             call(2, 10, EventKind::Separation, 0.5, Decision::Accepted),
+             call(3, 12, EventKind::Bud, 0.99), call(4, 13, EventKind::Separation, 0.99)});
     QCOMPARE(items.size(), size_t(1));
     QCOMPARE(items[0].eventId, std::int64_t(4));
     QCOMPARE(items[0].reasons, unsigned(kShortInterval));

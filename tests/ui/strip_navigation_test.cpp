@@ -32,8 +32,8 @@ class StripNavigationTest : public QObject {
   }
 
   void init() {
-    settings_ = std::make_unique<QSettings>(
-        dir_.filePath(QStringLiteral("nav-%1.ini").arg(++run_)), QSettings::IniFormat);
+    settings_ = std::make_unique<QSettings>(dir_.filePath(QStringLiteral("nav-%1.ini").arg(++run_)),
+                                            QSettings::IniFormat);
     ui::MainWindowOptions options;
     auto crops = std::make_shared<testsupport::SyntheticCrops>(events_);
     options.cropSources = [crops](ui::ReviewSession&) { return crops; };
@@ -148,9 +148,9 @@ class StripNavigationTest : public QObject {
     const ui::ReviewEvent& e = list[1];
     const QRectF lane = s->geometry().eventRect(1, s->axis().contentWidth());
     s->setCursor(1, e.event.frame);  // scrolls it into view
-    const QPoint at(static_cast<int>(s->axis().frameCentre(e.event.frame)) -
-                        s->horizontalScrollBar()->value(),
-                    static_cast<int>(lane.center().y()) - s->verticalScrollBar()->value());
+    const QPoint at(
+        static_cast<int>(s->axis().frameCentre(e.event.frame)) - s->horizontalScrollBar()->value(),
+        static_cast<int>(lane.center().y()) - s->verticalScrollBar()->value());
     s->setCursor(0, 0);
     s->setCursor(1, e.event.frame);
     s->selectEvent(std::nullopt);
@@ -165,10 +165,11 @@ class StripNavigationTest : public QObject {
     window_->loader()->cache().clear();
     s->viewport()->repaint();
     window_->loader()->waitForIdle();
-    const auto frames = s->axis().framesIn(s->horizontalScrollBar()->value(),
-                                           s->horizontalScrollBar()->value() + s->viewport()->width());
-    const auto lanes = s->geometry().lanesIn(s->verticalScrollBar()->value(),
-                                             s->verticalScrollBar()->value() + s->viewport()->height());
+    const auto frames =
+        s->axis().framesIn(s->horizontalScrollBar()->value(),
+                           s->horizontalScrollBar()->value() + s->viewport()->width());
+    const auto lanes = s->geometry().lanesIn(
+        s->verticalScrollBar()->value(), s->verticalScrollBar()->value() + s->viewport()->height());
     const int visible = (frames.second - frames.first + 1) * (lanes.second - lanes.first + 1);
     const int cached = window_->loader()->cache().count();
     // The strips' slots plus the large trap view's one native-size crop.
