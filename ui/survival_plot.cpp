@@ -65,15 +65,37 @@ void SurvivalPlot::paintEvent(QPaintEvent*) {
   p.drawPixmap(0, 0, cache_);
 }
 
-void SurvivalPlot::render(QPainter& p, QSize size) const {
-  p.save();
-  p.setRenderHint(QPainter::Antialiasing);
-  const QFontMetrics fm(p.font());
-  const QColor ink(0x22, 0x22, 0x22);
+SurvivalPlot::Frame SurvivalPlot::frameFor(QSize size, const QFontMetrics& fm) const {
+  Frame f;
   const int left = fm.horizontalAdvance(QStringLiteral("0.00")) + fm.height() + 12;
   const int top = 10 + (note_.isEmpty() ? 0 : fm.height() + 4);
   const int bottom = 2 * fm.height() + 12;
-  const QRectF plot(left, top, size.width() - left - 14, size.height() - top - bottom);
+  f.plot = QRectF(left, top, size.width() - left - 14, size.height() - top - bottom);
+  double xMax = 1;
+  for (const auto& c : curves_) {
+    xMax = std::max(xMax, c.lastX);
+    if (!c.steps.empty()) xMax = std::max(xMax, c.steps.back().x);
+  }
+  f.xStep = niceStep(xMax, std::max(2, static_cast<int>(f.plot.width() / 70)));
+  f.xMax = std::ceil(xMax / f.xStep) * f.xStep;
+  return f;
+}
+
+QPointF SurvivalPlot::toPixel(QSize size, double x, double survival) const {
+  const Frame f = frameFor(size, QFontMetrics(font()));
+  return {f.plot.left() + x / f.xMax * f.plot.width(),
+          f.plot.bottom() - std::clamp(survival, 0.0, 1.0) * f.plot.height()};
+}
+
+void SurvivalPlot::render(QPainter& p, QSize size) const {
+  p.save();
+  p.setRenderHint(QPainter::Antialiasing);
+  p.setFont(font());
+  const QFontMetrics fm(p.font());
+  const QColor ink(0x22, 0x22, 0x22);
+  const Frame f = frameFor(size, fm);
+  const QRectF plot = f.plot;
+  const int left = static_cast<int>(plot.left());
   if (!note_.isEmpty()) {
     p.setPen(ink);
     p.drawText(QRectF(left, 4, plot.width(), fm.height()), Qt::AlignLeft, note_);
@@ -82,13 +104,7 @@ void SurvivalPlot::render(QPainter& p, QSize size) const {
     p.restore();
     return;
   }
-  double xMax = 1;
-  for (const auto& c : curves_) {
-    xMax = std::max(xMax, c.lastX);
-    if (!c.steps.empty()) xMax = std::max(xMax, c.steps.back().x);
-  }
-  const double xStep = niceStep(xMax, std::max(2, static_cast<int>(plot.width() / 70)));
-  xMax = std::ceil(xMax / xStep) * xStep;
+  const double xMax = f.xMax, xStep = f.xStep;
   auto X = [&](double x) { return plot.left() + x / xMax * plot.width(); };
   auto Y = [&](double s) { return plot.bottom() - std::clamp(s, 0.0, 1.0) * plot.height(); };
 

@@ -25,6 +25,9 @@ class SurvivalPlot : public QWidget {
   void setNote(QString note);  // a line under the title, e.g. the log-rank result
   // Renders at `size` into `p` (the widget's paint and the docs both use it).
   void render(QPainter& p, QSize size) const;
+  // Where (x, survival) lands when rendered at `size`: the same mapping
+  // render() uses, for hover read-outs and tests.
+  QPointF toPixel(QSize size, double x, double survival) const;
   QSize sizeHint() const override { return {420, 300}; }
   QSize minimumSizeHint() const override { return {240, 180}; }
 
@@ -35,6 +38,12 @@ class SurvivalPlot : public QWidget {
  private:
   std::vector<SurvivalCurve> curves_;
   QString xTitle_, yTitle_, note_;
+  struct Frame {
+    QRectF plot;
+    double xMax = 1;
+    double xStep = 1;
+  };
+  Frame frameFor(QSize size, const QFontMetrics& fm) const;
   mutable QPixmap cache_;
 };
 
