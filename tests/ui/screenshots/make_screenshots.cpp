@@ -1,4 +1,4 @@
-// ui-screenshots OUTDIR: renders the workstation's main views with
+// ui-screenshots OUTDIR [SUFFIX]: renders the workstation's main views with
 // QWidget::grab for the user guide. It writes a made-up project (test
 // support), opens it in the real MainWindow with synthetic crops, drives it
 // with the same commands the keys run, and saves one PNG per view. Run it
@@ -27,8 +27,10 @@ using namespace budledger;
 
 namespace {
 
+QString gSuffix;  // "" at 100%, "@2x" at 200%
+
 bool save(QWidget* w, const QString& dir, const QString& name) {
-  const QString path = QDir(dir).filePath(name + QStringLiteral(".png"));
+  const QString path = QDir(dir).filePath(name + gSuffix + QStringLiteral(".png"));
   const bool ok = w->grab().save(path, "PNG");
   std::fprintf(ok ? stdout : stderr, "%s %s\n", ok ? "wrote" : "cannot write",
                path.toLocal8Bit().constData());
@@ -44,10 +46,11 @@ void settle() {
 int main(int argc, char** argv) {
   QApplication app(argc, argv);
   if (argc < 2) {
-    std::fprintf(stderr, "usage: ui-screenshots OUTDIR\n");
+    std::fprintf(stderr, "usage: ui-screenshots OUTDIR [SUFFIX]\n");
     return 2;
   }
   const QString out = QString::fromLocal8Bit(argv[1]);
+  if (argc > 2) gSuffix = QString::fromLocal8Bit(argv[2]);
   QDir().mkpath(out);
   QFile style(QStringLiteral(":/style/workstation.qss"));
   if (style.open(QIODevice::ReadOnly)) app.setStyleSheet(QString::fromUtf8(style.readAll()));
