@@ -21,6 +21,7 @@ int main(int argc, char** argv) {
 
   Action action;
   addSummaryCommand(app, action);
+  addStatsCommand(app, action);
 
   try {
     app.parse(argc, argv);

@@ -55,7 +55,7 @@ WeibullFit fitWeibull(const Tally& tally) {
     sumLogDeath += Real(c.events) * lt;
   }
   if (fit.events == 0) {
-    fit.problem = "no deaths after 0 divisions";
+    fit.problem = "no deaths (lifespans of 0 divisions left out)";
     return fit;
   }
   if (logtMax == logtMin) {
