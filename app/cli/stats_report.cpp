@@ -32,7 +32,9 @@ StatsReport computeStatsReport(const std::vector<Lifespan>& lifespans,
   }
   r.logRank = logRank(cohort, LogRankOptions::logRank());
   r.petoPeto = logRank(cohort, LogRankOptions::petoPeto());
-  r.cox = coxByGroup(cohort, {CoxTies::Efron, 40, options.km.confidenceLevel});
+  CoxOptions cox;
+  cox.confidenceLevel = options.km.confidenceLevel;
+  r.cox = coxByGroup(cohort, cox);
   return r;
 }
 

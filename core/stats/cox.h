@@ -24,6 +24,9 @@ struct CoxOptions {
   CoxTies ties = CoxTies::Efron;
   int maxIterations = 40;
   double confidenceLevel = 0.95;
+  // Tie blocks with at least this many deaths sum Efron's terms in closed form
+  // (log-gamma and digamma); the value is the same, the cost O(1) in the block size.
+  long efronClosedFormFrom = 4;
 };
 
 struct CoxRecord {

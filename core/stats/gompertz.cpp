@@ -17,7 +17,7 @@ struct Phi {
 };
 
 Phi phi(Real x) {
-  if (std::fabs(x) < 1.0L) {
+  if (std::fabs(x) < 0.05L) {
     // f0 = Σ x^m/(m+1)!, f1 = Σ (m+1) x^m/(m+2)!, f2 = Σ (m+2)(m+1) x^m/(m+3)!
     Real f0 = 0.0L, f1 = 0.0L, f2 = 0.0L;
     Real xm = 1.0L;    // x^m

@@ -11,28 +11,30 @@ namespace budledger::stats {
 using Real = long double;
 
 void confidenceInterval(const KaplanMeierOptions& options, double z, SurvivalStep& step) {
+  // Double precision suffices here (R works in double too); the products and
+  // sums the interval is built from are accumulated in long double.
   const double s = step.survival;
   step.lower.reset();
   step.upper.reset();
   if (!(s > 0.0) || std::isinf(step.varLogSurvival)) return;
-  const Real se = std::sqrt(Real(step.varLogSurvival));  // SE of log S
+  const double se = std::sqrt(step.varLogSurvival);  // SE of log S
   switch (options.transform) {
     case ConfidenceTransform::Log:
-      step.lower = double(std::exp(std::log(Real(s)) - z * se));
-      step.upper = std::min(double(std::exp(std::log(Real(s)) + z * se)), 1.0);
+      step.lower = std::exp(std::log(s) - z * se);
+      step.upper = std::min(std::exp(std::log(s) + z * se), 1.0);
       break;
     case ConfidenceTransform::LogLog: {
       if (s == 1.0) return;
-      const Real ls = std::log(Real(s));
-      const Real w = z * se / ls;
-      step.lower = double(std::exp(-std::exp(std::log(-ls) - w)));
-      step.upper = double(std::exp(-std::exp(std::log(-ls) + w)));
+      const double ls = std::log(s);
+      const double w = z * se / ls;
+      step.lower = std::exp(-std::exp(std::log(-ls) - w));
+      step.upper = std::exp(-std::exp(std::log(-ls) + w));
       break;
     }
     case ConfidenceTransform::Plain: {
-      const Real half = z * se * s;
-      step.lower = std::max(double(s - half), 0.0);
-      step.upper = std::min(double(s + half), 1.0);
+      const double half = z * se * s;
+      step.lower = std::max(s - half, 0.0);
+      step.upper = std::min(s + half, 1.0);
       break;
     }
   }

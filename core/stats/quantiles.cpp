@@ -27,48 +27,56 @@ std::optional<std::size_t> constantRightLookup(
   return it->second;
 }
 
-std::optional<double> findQuantile(const FailureSteps& in, double p, double tol) {
-  // No defined value reaches p: not reached.
+// R's findq() split in two: the curve-dependent part once, then one lookup per p.
+struct PreparedSteps {
   bool any = false;
-  double ymax = 0.0;
+  double ymax = 0.0, xmax = 0.0;
+  std::vector<double> x;  // first knot of each distinct y
+  std::vector<std::optional<double>> y;
+  std::vector<std::pair<double, std::size_t>> up, down;  // (y ± tol, knot), sorted
+};
+
+PreparedSteps prepare(const FailureSteps& in, double tol) {
+  PreparedSteps s;
   for (const auto& v : in.y) {
     if (v) {
-      ymax = any ? std::max(ymax, *v) : *v;
-      any = true;
+      s.ymax = s.any ? std::max(s.ymax, *v) : *v;
+      s.any = true;
     }
   }
-  if (!any || ymax < p) return std::nullopt;
-
-  const double xmax = in.x.back();
+  if (!s.any) return s;
+  s.xmax = in.x.back();
   // Keep the first knot of each distinct y (R's duplicated(), where NA equals NA).
-  std::vector<double> x;
-  std::vector<std::optional<double>> y;
   std::set<double> seen;
   bool seenMissing = false;
   for (std::size_t i = 0; i < in.y.size(); ++i) {
-    bool fresh = in.y[i] ? seen.insert(*in.y[i]).second : !std::exchange(seenMissing, true);
+    const bool fresh = in.y[i] ? seen.insert(*in.y[i]).second : !std::exchange(seenMissing, true);
     if (fresh) {
-      x.push_back(in.x[i]);
-      y.push_back(in.y[i]);
+      s.x.push_back(in.x[i]);
+      s.y.push_back(in.y[i]);
     }
   }
-
-  std::vector<std::pair<double, std::size_t>> up, down;
-  for (std::size_t i = 0; i < y.size(); ++i) {
-    if (!y[i]) continue;
-    up.emplace_back(*y[i] + tol, i);
-    down.emplace_back(*y[i] - tol, i);
+  for (std::size_t i = 0; i < s.y.size(); ++i) {
+    if (!s.y[i]) continue;
+    s.up.emplace_back(*s.y[i] + tol, i);
+    s.down.emplace_back(*s.y[i] - tol, i);
   }
-  std::sort(up.begin(), up.end());
-  std::sort(down.begin(), down.end());
-  auto i1 = constantRightLookup(up, p);
-  auto i2 = constantRightLookup(down, p);
+  std::sort(s.up.begin(), s.up.end());
+  std::sort(s.down.begin(), s.down.end());
+  return s;
+}
+
+std::optional<double> findQuantile(const PreparedSteps& s, double p, double tol) {
+  // No defined value reaches p: not reached.
+  if (!s.any || s.ymax < p) return std::nullopt;
+  const auto i1 = constantRightLookup(s.up, p);
+  const auto i2 = constantRightLookup(s.down, p);
   std::optional<double> q;
-  if (i1 && i2) q = (x[*i1] + x[*i2]) / 2.0;
-  if (p == 0.0) q = x.front();
+  if (i1 && i2) q = (s.x[*i1] + s.x[*i2]) / 2.0;
+  if (p == 0.0) q = s.x.front();
   // A curve or band that ends exactly at p: midpoint to the last follow-up time.
-  if (y.back() && std::fabs(p - *y.back()) < tol) {
-    q = i1 ? std::optional<double>((x[*i1] + xmax) / 2.0) : std::nullopt;
+  if (s.y.back() && std::fabs(p - *s.y.back()) < tol) {
+    q = i1 ? std::optional<double>((s.x[*i1] + s.xmax) / 2.0) : std::nullopt;
   }
   return q;
 }
@@ -94,16 +102,17 @@ FailureSteps failureSteps(const SurvivalCurve& curve, int which) {
 std::vector<QuantileEstimate> quantiles(const SurvivalCurve& curve, std::span<const double> probs) {
   std::vector<QuantileEstimate> out;
   out.reserve(probs.size());
-  const FailureSteps est = failureSteps(curve, 0);
-  const FailureSteps lo = failureSteps(curve, 1);
-  const FailureSteps hi = failureSteps(curve, 2);
+  const double tol = kQuantileTolerance;
+  const PreparedSteps est = prepare(failureSteps(curve, 0), tol);
+  const PreparedSteps lo = prepare(failureSteps(curve, 1), tol);
+  const PreparedSteps hi = prepare(failureSteps(curve, 2), tol);
   for (double p : probs) {
     QuantileEstimate q;
     q.probability = p;
     if (p >= 0.0 && p <= 1.0) {
-      q.time = findQuantile(est, p, kQuantileTolerance);
-      q.lower = findQuantile(lo, p, kQuantileTolerance);
-      q.upper = findQuantile(hi, p, kQuantileTolerance);
+      q.time = findQuantile(est, p, tol);
+      q.lower = findQuantile(lo, p, tol);
+      q.upper = findQuantile(hi, p, tol);
     }
     out.push_back(q);
   }

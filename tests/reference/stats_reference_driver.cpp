@@ -1,9 +1,9 @@
 // stats_reference_driver OUTDIR [DATASETS] [SEED] — draws random censored
 // lifespan data sets with ties (integer lifespans 0–60, 0–60% censoring, 1–4
-// groups, 1–3 strata) from a fixed seed, runs BudLedger's statistics on them
-// and writes OUTDIR/data.csv (the data) and OUTDIR/budledger.csv (every number,
-// one per row, keyed so that compare_survival.R can compute the same key from
-// R survival and compare). Undefined values are written as NA.
+// groups, 1–3 strata; two larger ones at the end) from a fixed seed, runs BudLedger's statistics on
+// them and writes OUTDIR/data.csv (the data) and OUTDIR/budledger.csv (every number, one per row,
+// keyed so that compare_survival.R can compute the same key from R survival and compare). Undefined
+// values are written as NA.
 #include <fmt/format.h>
 
 #include <array>
@@ -34,13 +34,13 @@ class Draw {
   std::mt19937_64 rng_;
 };
 
-std::vector<Lifespan> drawDataset(Draw& d) {
+std::vector<Lifespan> drawDataset(Draw& d, int minSize, int maxSize) {
   const int groups = d.integer(1, 4);
   const int strata = d.integer(1, 3);
   const double censoring = 0.6 * d.uniform();
   std::vector<Lifespan> out;
   for (int g = 0; g < groups; ++g) {
-    const int n = d.integer(5, 60);
+    const int n = d.integer(minSize, maxSize);
     const double scale = 8.0 + 27.0 * d.uniform();
     const double shape = 0.8 + 2.2 * d.uniform();
     for (int i = 0; i < n; ++i) {
@@ -205,8 +205,10 @@ int main(int argc, char** argv) {
   data << "dataset,time,status,group,stratum\n";
   ours << "dataset,key,value\n";
   Draw draw(seed);
-  for (int i = 1; i <= count; ++i) {
-    const auto lifespans = drawDataset(draw);
+  // The last two data sets are large (up to 2,000 mothers a group), so that tie
+  // blocks hold hundreds of deaths.
+  for (int i = 1; i <= count + 2; ++i) {
+    const auto lifespans = i <= count ? drawDataset(draw, 5, 60) : drawDataset(draw, 500, 2000);
     for (const auto& l : lifespans) {
       data << fmt::format("{},{},{},{},{}\n", i, l.divisions, l.event ? 1 : 0, l.group, l.stratum);
     }

@@ -95,6 +95,32 @@ TEST(Cox, OneGroupOrNoDeaths) {
   EXPECT_EQ(none.fit.problem, "no deaths");
 }
 
+TEST(Cox, EfronClosedFormEqualsTheTermByTermSum) {
+  // Large tie blocks (hundreds of deaths at one time) summed term by term and
+  // in closed form must give the same fit; three groups, two strata.
+  std::vector<Lifespan> all;
+  for (int i = 0; i < 3000; ++i) {
+    const int g = i % 3;
+    const int t = (i * 7919) % (20 + 5 * g);
+    all.push_back({t, (i % 5) != 0, std::string(1, char('a' + g)), i % 2 ? "x" : "y"});
+  }
+  Cohort c(all);
+  CoxOptions loop, closed;
+  loop.efronClosedFormFrom = 1000000;
+  closed.efronClosedFormFrom = 1;
+  const auto a = coxByGroup(c, loop);
+  const auto b = coxByGroup(c, closed);
+  ASSERT_TRUE(a.fit.estimable);
+  ASSERT_TRUE(b.fit.estimable);
+  EXPECT_NEAR(b.fit.logLik / a.fit.logLik, 1.0, 1e-14);
+  EXPECT_NEAR(b.fit.logLikNull / a.fit.logLikNull, 1.0, 1e-14);
+  EXPECT_NEAR(b.fit.score / a.fit.score, 1.0, 1e-11);
+  for (std::size_t j = 0; j < 2; ++j) {
+    EXPECT_NEAR(b.fit.coef[j] / a.fit.coef[j], 1.0, 1e-11);
+    EXPECT_NEAR(b.fit.stdErr[j] / a.fit.stdErr[j], 1.0, 1e-11);
+  }
+}
+
 TEST(Cox, ThreeGroups) {
   Cohort c(concat(concat(lifespans(kSixMp, "a"), lifespans(kPlacebo, "b")),
                   lifespans(kAmlNonmaintained, "c")));
