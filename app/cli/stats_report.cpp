@@ -256,7 +256,8 @@ std::string renderSummaryCsv(const StatsReport& r) {
 
 namespace {
 
-using nlohmann::json;
+// Keys in the order written, so the output reads top-down like the text report.
+using json = nlohmann::ordered_json;
 
 json value(const std::optional<double>& v) { return v ? json(*v) : json(nullptr); }
 
