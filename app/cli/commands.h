@@ -13,5 +13,6 @@ using Action = std::function<int()>;
 
 void addSummaryCommand(CLI::App& root, Action& action);
 void addSimulateCommand(CLI::App& root, Action& action);
+void addStatsCommand(CLI::App& root, Action& action);
 
 }  // namespace budledger::cli
