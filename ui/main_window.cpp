@@ -22,6 +22,8 @@
 #include "ui/review_queue_panel.h"
 #include "ui/shortcuts_dialog.h"
 #include "ui/strip_workspace.h"
+#include "ui/survival_model.h"
+#include "ui/survival_plot.h"
 #include "ui/time_strip_view.h"
 #include "ui/trap_image_view.h"
 #include "ui/trap_list_panel.h"
@@ -129,6 +131,17 @@ void MainWindow::buildDocks() {
   resultsDock->setWidget(results_);
   addDockWidget(Qt::RightDockWidgetArea, resultsDock);
 
+  survival_ = new SurvivalModel(this);
+  survivalPlot_ = new SurvivalPlot(this);
+  auto* survivalDock = new QDockWidget(tr("Survival by group"), this);
+  survivalDock->setObjectName(QStringLiteral("survivalDock"));
+  survivalDock->setWidget(survivalPlot_);
+  addDockWidget(Qt::RightDockWidgetArea, survivalDock);
+  connect(survival_, &SurvivalModel::changed, this, [this] {
+    survivalPlot_->setCurves(survival_->curves());
+    survivalPlot_->setNote(survival_->comparison());
+  });
+
   connect(trapPanel_, &TrapListPanel::trapChosen, this, [this](TrapId t) {
     goToTrap(t, std::nullopt);
     strips()->setFocus();
@@ -209,6 +222,7 @@ void MainWindow::closeProject() {
   trapImage_->setSession(nullptr);
   trapImage_->setLoader(nullptr);
   results_->setSession(nullptr);
+  survival_->setSession(nullptr);
   queuePanel_->model()->setSession(nullptr);
   trapPanel_->setSession(nullptr, nullptr);
   loader_.reset();
@@ -251,6 +265,7 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   trapImage_->setSession(session_.get());
   trapImage_->setLoader(loader_.get());
   results_->setSession(session_.get());
+  survival_->setSession(session_.get());
   queuePanel_->model()->setSession(session_.get());
   trapPanel_->setSession(session_.get(), queuePanel_->model());
 

@@ -25,6 +25,8 @@ namespace budledger::ui {
 class ResultsPanel;
 class ReviewQueuePanel;
 class StripWorkspace;
+class SurvivalModel;
+class SurvivalPlot;
 class TimeStripView;
 class TrapImageView;
 class TrapListPanel;
@@ -58,6 +60,8 @@ class MainWindow : public QMainWindow {
   ReviewQueuePanel* queuePanel() const { return queuePanel_; }
   ResultsPanel* resultsPanel() const { return results_; }
   TrapImageView* trapImage() const { return trapImage_; }
+  SurvivalModel* survival() const { return survival_; }
+  SurvivalPlot* survivalPlot() const { return survivalPlot_; }
   ThumbnailLoader* loader() const { return loader_.get(); }
   KeyMap& keyMap() { return keyMap_; }
   QAction* action(Command c) const;
@@ -95,6 +99,8 @@ class MainWindow : public QMainWindow {
   ReviewQueuePanel* queuePanel_ = nullptr;
   ResultsPanel* results_ = nullptr;
   TrapImageView* trapImage_ = nullptr;
+  SurvivalModel* survival_ = nullptr;
+  SurvivalPlot* survivalPlot_ = nullptr;
   QLabel* cursorLabel_ = nullptr;
   QMenu* recentMenu_ = nullptr;
   QMenu* viewMenu_ = nullptr;

@@ -69,7 +69,9 @@ SurvivalPlot::Frame SurvivalPlot::frameFor(QSize size, const QFontMetrics& fm) c
   Frame f;
   const int left = fm.horizontalAdvance(QStringLiteral("0.00")) + fm.height() + 12;
   const int top = 10 + (note_.isEmpty() ? 0 : fm.height() + 4);
-  const int bottom = 2 * fm.height() + 12;
+  // Under the axis title: one legend row per group, so the key never covers a curve.
+  const int legend = static_cast<int>(curves_.size()) * (fm.height() + 2) + 4;
+  const int bottom = 2 * fm.height() + 12 + legend;
   f.plot = QRectF(left, top, size.width() - left - 14, size.height() - top - bottom);
   double xMax = 1;
   for (const auto& c : curves_) {
@@ -187,29 +189,26 @@ void SurvivalPlot::render(QPainter& p, QSize size) const {
   }
   p.setClipping(false);
 
-  // Legend, top right: line sample, label, n, median.
-  QStringList rows;
-  int widest = 0;
-  for (const auto& c : curves_) {
+  // Legend under the axis title: line sample, label, n, median.
+  const double legendTop = plot.bottom() + 2 * fm.height() + 12;
+  for (size_t i = 0; i < curves_.size(); ++i) {
+    const auto& c = curves_[i];
     QString med = c.median ? QString::number(*c.median, 'g', 4) : tr("not reached");
     if (c.median && c.medianLower && c.medianUpper)
-      med += tr(" (%1–%2)").arg(*c.medianLower, 0, 'g', 4).arg(*c.medianUpper, 0, 'g', 4);
-    rows << tr("%1  n=%2, median %3").arg(c.label).arg(c.subjects).arg(med);
-    widest = std::max(widest, fm.horizontalAdvance(rows.back()));
-  }
-  const double lw = widest + 44, lh = rows.size() * (fm.height() + 2) + 8;
-  const QRectF box(plot.right() - lw - 6, plot.top() + 6, lw, lh);
-  p.setPen(QPen(QColor(0xBB, 0xBB, 0xBB), 1));
-  p.setBrush(QColor(255, 255, 255, 230));
-  p.drawRect(box);
-  for (int i = 0; i < rows.size(); ++i) {
-    const double y = box.top() + 4 + i * (fm.height() + 2) + fm.height() / 2.0;
-    const QColor colour = kGroupColours[static_cast<size_t>(i) % std::size(kGroupColours)];
-    p.setPen(QPen(colour, 2.2, kGroupStyles[static_cast<size_t>(i) % std::size(kGroupStyles)]));
-    p.drawLine(QPointF(box.left() + 6, y), QPointF(box.left() + 32, y));
+      med += tr(" (95% CI %1–%2)").arg(*c.medianLower, 0, 'g', 4).arg(*c.medianUpper, 0, 'g', 4);
+    const QString row = tr("%1: n = %2, %3 died, median %4")
+                            .arg(c.label.isEmpty() ? tr("(no group)") : c.label)
+                            .arg(c.subjects)
+                            .arg(c.events)
+                            .arg(med);
+    const double y = legendTop + static_cast<double>(i) * (fm.height() + 2) + fm.height() / 2.0;
+    const QColor colour = kGroupColours[i % std::size(kGroupColours)];
+    p.setPen(QPen(colour, 2.2, kGroupStyles[i % std::size(kGroupStyles)]));
+    p.drawLine(QPointF(plot.left(), y), QPointF(plot.left() + 28, y));
     p.setPen(ink);
-    p.drawText(QRectF(box.left() + 38, y - fm.height() / 2.0, widest + 4, fm.height()),
-               Qt::AlignVCenter, rows[i]);
+    p.drawText(QRectF(plot.left() + 34, y - fm.height() / 2.0, size.width() - plot.left() - 40,
+                      fm.height()),
+               Qt::AlignVCenter | Qt::AlignLeft, row);
   }
   p.restore();
 }
