@@ -65,14 +65,14 @@ TEST(Optics, DriftTableIsTheShiftOfTheChip) {
   double maxShift = 0;
   for (int k = 1; k < s.frames; k += 3) {
     const auto& d = drift[static_cast<std::size_t>(k)];
-    ASSERT_LT(std::max(std::fabs(d.x), std::fabs(d.y)), 28.0) << "test drift beyond its search";
+    ASSERT_LT(std::max(std::fabs(d.x), std::fabs(d.y)), 28.0) << "test drift beyond its border";
     maxShift = std::max(maxShift, std::hypot(d.x, d.y));
     const auto [dx, dy] = bestShift(frames[0], frames[static_cast<std::size_t>(k)],
                                     m.device.width(), m.device.height(), 30);
     EXPECT_LE(std::fabs(dx - d.x), 0.75) << "frame " << k;
     EXPECT_LE(std::fabs(dy - d.y), 0.75) << "frame " << k;
   }
-  EXPECT_GT(maxShift, 4.0);  // the test saw real motion, jumps included
+  EXPECT_GT(maxShift, 11.0);  // real motion, jumps included, well beyond the search window
 }
 
 TEST(Optics, ArtefactsSwitchOff) {
