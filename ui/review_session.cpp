@@ -32,7 +32,7 @@ QString ReviewSession::path() const { return QString::fromStdString(project_->pa
 void ReviewSession::loadAll() {
   positions_ = project_->positions();
   for (const auto& p : positions_) traps_[p.id] = project_->traps(p.id);
-  if (auto v = project_->meta("interval_minutes")) {
+  if (auto v = project_->meta("interval_min")) {
     try {
       const double m = std::stod(*v);
       if (m > 0) intervalMinutes_ = m;

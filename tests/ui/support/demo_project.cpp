@@ -9,7 +9,7 @@ namespace budledger::testsupport {
 
 std::vector<Event> writeDemoProject(const QString& path, const DemoOptions& o) {
   auto project = store::Project::create(path.toStdString());
-  project.setMeta("interval_minutes", std::to_string(o.intervalMinutes));
+  project.setMeta("interval_min", std::to_string(o.intervalMinutes));
   std::mt19937 rng(o.seed);
   auto uniform = [&](double a, double b) { return std::uniform_real_distribution<>(a, b)(rng); };
   auto integer = [&](int a, int b) { return std::uniform_int_distribution<>(a, b)(rng); };
