@@ -21,6 +21,8 @@ int main(int argc, char** argv) {
 
   Action action;
   addSummaryCommand(app, action);
+  addAnalyzeCommand(app, action);
+  addExportCommand(app, action);
 
   try {
     app.parse(argc, argv);
