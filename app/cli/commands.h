@@ -17,6 +17,7 @@ namespace budledger::cli {
 using Action = std::function<int()>;
 
 void addSummaryCommand(CLI::App& root, Action& action);
+void addSimulateCommand(CLI::App& root, Action& action);
 void addAnalyzeCommand(CLI::App& root, Action& action);
 void addExportCommand(CLI::App& root, Action& action);
 
