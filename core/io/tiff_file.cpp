@@ -127,6 +127,8 @@ TiffFile::TiffFile(const std::filesystem::path& path) : path_(path), h_(std::mak
       if (TIFFGetField(tif, TIFFTAG_IMAGEDESCRIPTION, &desc) && desc) description_ = desc;
       float xres = 0;
       if (TIFFGetField(tif, TIFFTAG_XRESOLUTION, &xres)) xResolution_ = xres;
+      uint16_t pageNo = 0, pageTotal = 0;
+      if (TIFFGetField(tif, TIFFTAG_PAGENUMBER, &pageNo, &pageTotal)) declaredPages_ = pageTotal;
     } else if (static_cast<int>(w) != width_ || static_cast<int>(hgt) != height_ ||
                bits != bits_) {
       fail(page, fmt::format("mixed frame sizes: this page is {}x{} {}-bit but page 0 is "

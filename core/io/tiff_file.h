@@ -39,6 +39,8 @@ class TiffFile {
   const std::string& description() const { return description_; }
   // XResolution of the first page in pixels per unit (0 if absent).
   double xResolution() const { return xResolution_; }
+  // The page count the PageNumber tag of the first page declares (0 if absent).
+  int declaredPages() const { return declaredPages_; }
 
   // Decodes page `page` into `out` (reallocated only if its size or type
   // differs). `frameForErrors` is the frame number an error should name.
@@ -63,6 +65,7 @@ class TiffFile {
   std::uint64_t fileSize_ = 0;
   std::string description_;
   double xResolution_ = 0;
+  int declaredPages_ = 0;
   std::vector<unsigned char> tileBuffer_;
 };
 

@@ -35,18 +35,19 @@ class TiffStackSource final : public FrameSource {
       // No usable dimensions: every page is a time point.
       sizeT = pages / (sizeC * sizeZ);
     }
+    // Pages lost from the end of a file show only against what the writer
+    // declared: the metadata's plane count or the pages' own numbering.
     const long planes = static_cast<long>(sizeT) * sizeC * sizeZ;
-    if (md.explicitPlanes.empty() && planes != pages) {
-      if (sizeC == 1 && sizeZ == 1) {
-        sizeT = pages;  // metadata disagrees with the file; the pages are the truth
-      } else if (planes > pages) {
-        throw InputError(name, std::nullopt,
-                         fmt::format("file is truncated: its metadata describes {} planes "
-                                     "({} time points x {} channels x {} planes) but it has {} "
-                                     "pages",
-                                     planes, sizeT, sizeC, sizeZ, pages));
-      }
-    }
+    if (md.explicitPlanes.empty() && planes > pages)
+      throw InputError(name, pages,
+                       fmt::format("file is truncated: its metadata describes {} planes ({} time "
+                                   "points x {} channels x {} planes) but only {} pages are present",
+                                   planes, sizeT, sizeC, sizeZ, pages));
+    if (tiff_->declaredPages() > pages)
+      throw InputError(name, pages,
+                       fmt::format("file is truncated: its pages are numbered out of {} but only {} "
+                                   "are present",
+                                   tiff_->declaredPages(), pages));
     md.sizeT = sizeT;
     md.sizeC = sizeC;
     md.sizeZ = sizeZ;
