@@ -19,7 +19,8 @@ struct FrameDrift {
   double dx = 0, dy = 0;
   // How far the measurement can be trusted, in [0, 1]: how well the frame's
   // structure matches the reference once aligned (`match`) relative to the
-  // movie's median match, capped at 1; halved when the refinement failed.
+  // movie's median match, capped at 1, times min(1, focus / 0.5), halved when
+  // the refinement failed.
   double confidence = 0;
   // Sharpness relative to the movie's median frame (1 = typical, < 0.5 = blurred).
   double focus = 0;

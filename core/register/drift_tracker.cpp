@@ -51,7 +51,10 @@ DriftTrack DriftTracker::finish() const {
     d.match = m.correlation;
     d.rawFocus = m.focus;
     d.focus = medFocus > 0 ? m.focus / medFocus : 0;
+    // Trust falls with a poorer match than usual, with blur (a defocused
+    // frame still registers, but less precisely) and without refinement.
     d.confidence = medMatch > 0 ? std::clamp(m.correlation / medMatch, 0.0, 1.0) : 0;
+    d.confidence *= std::clamp(d.focus / options_.sharpFocus, 0.0, 1.0);
     if (!m.refined) d.confidence *= 0.5;
     good[i] = medMatch > 0 && m.correlation >= options_.failFraction * medMatch;
     if (frames_[i] == options_.referenceFrame) d.flags |= FrameDrift::kReference;

@@ -23,6 +23,8 @@ struct TrackOptions {
   // A shift differing from both neighbours by more than this (px) while they
   // agree is an outlier.
   double outlierPx = 2.0;
+  // Frames at least this sharp (relative focus) lose no confidence for blur.
+  double sharpFocus = 0.5;
   // A change between consecutive frames above this (px) is flagged as a jump.
   double jumpPx = 3.0;
   int referenceFrame = 0;  // which frame the Registrar's reference is

@@ -71,7 +71,10 @@ const cv::Mat& PhaseCorrelator::correlate(const cv::Mat& features) {
       *re = *re >= 0 ? b : -b;
       return;
     }
-    const float k = b / (std::sqrt(*re * *re + *im * *im) + 1e-12f);
+    const float mag2 = *re * *re + *im * *im;
+    const float k = whitening_ == 1.0f ? b / (std::sqrt(mag2) + 1e-12f)
+                    : whitening_ == 0.5f ? b / (std::sqrt(std::sqrt(mag2)) + 1e-12f)
+                                         : b / (std::pow(mag2, 0.5f * whitening_) + 1e-12f);
     *re *= k;
     *im *= k;
   });

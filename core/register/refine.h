@@ -3,9 +3,12 @@
 // between a reference feature patch and an image's features, with a gain and
 // an offset solved alongside (brightness flicker). Inverse-compositional:
 // the reference's gradients and every weighted sum that involves only the
-// reference are computed once, so an iteration is one bilinear warp and five
-// dot products. Starts from an estimate within about a pixel, as the coarse
-// phase correlation gives. Not thread-safe.
+// reference are computed once, so an iteration is one bilinear warp and a few
+// dot products. Once converged it can reweight pixels by their residual
+// (Cauchy weights) and iterate again, so that cells which grow or move next
+// to the posts pull the estimate as little as possible. Starts from an
+// estimate within about a pixel, as the coarse phase correlation gives. Not
+// thread-safe.
 #include <opencv2/core.hpp>
 
 namespace budledger::registration {
@@ -17,6 +20,12 @@ struct RefineResult {
   bool converged = false;
 };
 
+struct RefineOptions {
+  int iterations = 4;
+  double tolerance = 0.003;  // a step shorter than this (px) has converged
+  bool robust = false;       // reweight by residual and iterate again
+};
+
 class TranslationRefiner {
  public:
   // `patch` CV_32F reference features; `weights` CV_32F (same size) or empty.
@@ -24,16 +33,31 @@ class TranslationRefiner {
 
   // `features`: image features over a region larger than the patch; the
   // reference pixel u is compared with features at u + offset + shift.
-  // Stops when a step is shorter than `tolerance` px (converged) or after
-  // `iterations` steps.
   RefineResult refine(const cv::Mat& features, cv::Point2d offset, cv::Point2d initial,
-                      int iterations, double tolerance = 0.003);
+                      const RefineOptions& options);
 
  private:
-  cv::Mat ref_, w_, wr_, wgx_, wgy_;
-  double sw_ = 0, swr_ = 0, swrr_ = 0, sgx_ = 0, sgy_ = 0, sgxr_ = 0, sgyr_ = 0;
-  double h11_ = 0, h12_ = 0, h22_ = 0;
-  cv::Mat t1_, t2_, v_, wv_;
+  // Weighted sums of the reference that one set of weights implies.
+  struct Sums {
+    cv::Mat w, wr, wgx, wgy;
+    double sw = 0, swr = 0, swrr = 0, sgx = 0, sgy = 0, sgxr = 0, sgyr = 0;
+    double h11 = 0, h12 = 0, h22 = 0;
+  };
+  void prepare(const cv::Mat& weights, Sums& s) const;
+  // Samples the features at `at` + each reference pixel (bilinear, one
+  // fractional offset for the whole patch) into v_ and returns the sums an
+  // iteration needs; false when the patch would leave the features.
+  struct Moments {
+    double sv = 0, svv = 0, srv = 0, sgxv = 0, sgyv = 0;
+  };
+  bool warp(const cv::Mat& features, cv::Point2d at, const Sums& s, Moments& m);
+  // One pass of iterations with the given sums; updates `r`.
+  void iterate(const cv::Mat& features, cv::Point2d offset, const Sums& s,
+               const RefineOptions& options, RefineResult& r);
+
+  cv::Mat ref_, gx_, gy_;
+  Sums base_, robust_;
+  cv::Mat v_;
 };
 
 }  // namespace budledger::registration

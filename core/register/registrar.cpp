@@ -54,10 +54,7 @@ Registrar::Registrar(const cv::Mat& reference, const cv::Mat& structure,
   const cv::Size small(coarseRect_.width / factor_, coarseRect_.height / factor_);
   cv::resize(reference(coarseRect_), small_, small, 0, 0, cv::INTER_AREA);
   structureFeatures(small_, smallFeatures_, kCoarseFeatures);
-  cv::Mat weights;
-  if (!structure_.empty())
-    cv::resize(structure_(coarseRect_), weights, small, 0, 0, cv::INTER_AREA);
-  coarse_.setReference(smallFeatures_, weights);
+  coarse_.setReference(smallFeatures_);
 }
 
 Registrar::FinePatch* Registrar::finePatchFor(cv::Point shift) {
@@ -137,11 +134,11 @@ Measurement Registrar::measure(const cv::Mat& frame, cv::Point2d prediction) {
   const double reach = 0.75 * f + 1.5;
   cv::Point2d residual = coarse - cv::Point2d(whole);
   const RefineResult h = p->half.refine(halfFeatures_, {hm, hm}, residual / 2,
-                                        options_.refineIterations, 0.02);
+                                        {options_.refineIterations, 0.02, false});
   if (h.converged && std::hypot(2 * h.shift.x - residual.x, 2 * h.shift.y - residual.y) < reach)
     residual = 2 * h.shift;
   const RefineResult r = p->full.refine(fullFeatures_, {kMargin, kMargin}, residual,
-                                        options_.refineIterations);
+                                        {options_.refineIterations, 0.003, options_.robust});
   m.correlation = r.correlation;
   const cv::Point2d moved = cv::Point2d(whole) + r.shift - coarse;
   if (r.converged && std::hypot(moved.x, moved.y) < reach) {

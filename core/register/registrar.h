@@ -4,10 +4,12 @@
 // whose search is bounded to a disc around a prediction (on a lattice of
 // traps an unbounded peak search can lock onto a shift of one whole trap
 // pitch), then a Gauss-Newton refinement on a patch, first at half and then
-// at full resolution, for sub-pixel precision. The reference's features
-// are weighted by an optional structure map (the chip's posts, which follow
-// the stage) so that cells, debris and fixed camera patterns, which do not,
-// pull the estimate as little as possible. Holds reusable buffers: one
+// at full resolution, for sub-pixel precision. The refinement is weighted by
+// an optional structure map (the chip's posts, which follow the stage) so
+// that cells, debris and fixed camera patterns, which do not, pull the
+// estimate as little as possible. The coarse stage is not weighted: a
+// weighted, purely periodic reference would make every lattice alias match
+// equally well, and the non-periodic rest of the chip is what tells them apart. Holds reusable buffers: one
 // Registrar per thread.
 #include <array>
 #include <map>
@@ -27,6 +29,7 @@ struct RegistrationOptions {
   double maxShift = 0;        // bound on |shift| in px; 0 = 45% of the frame's smaller side
   double jumpRatio = 1.6;     // a peak outside the search disc must be this much higher to win
   int refineIterations = 4;  // Gauss-Newton iterations per resolution (most frames need two)
+  bool robust = true;        // reweight the full-resolution refinement by residual
 };
 
 struct Measurement {
@@ -60,7 +63,7 @@ class Registrar {
   cv::Rect coarseRect_;  // full-resolution window of the coarse stage (reference coordinates)
   int factor_ = 1;       // reduction of the coarse stage
   double searchRadius_ = 0, maxShift_ = 0;
-  PhaseCorrelator coarse_;
+  PhaseCorrelator coarse_{0.35, 0.03, 0.5f};
   cv::Mat refFrame_, structure_;  // full resolution
   std::map<std::array<int, 4>, FinePatch> fine_;  // by patch origin and size
   cv::Mat small_, smallFeatures_, halfRegion_, halfFeatures_, fullFeatures_;
