@@ -90,13 +90,16 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
   for (int f : traps::spreadFrames(frames, options.surveyFrames)) survey.push_back(source.read(f));
   out.surveyLattice = traps::findLattice(survey, options.lattice);
   survey.clear();
+  // Frame 0 is the reference (drift is relative to it) unless it is clearly
+  // blurred; then the sharpest of the next few frames stands in.
   int reference = 0;
-  cv::Mat referenceFrame;
-  double bestFocus = -1;
-  for (int f = 0; f < std::min(frames, std::max(1, options.referenceCandidates)); ++f) {
+  cv::Mat referenceFrame = source.read(0);
+  const double focus0 = centreFocus(referenceFrame);
+  double bestFocus = focus0;
+  for (int f = 1; f < std::min(frames, std::max(1, options.referenceCandidates)); ++f) {
     cv::Mat m = source.read(f);
     const double focus = centreFocus(m);
-    if (focus > bestFocus * 1.05) {  // prefer the earliest of equally sharp frames
+    if (focus > bestFocus && focus0 < 0.75 * focus) {
       bestFocus = focus;
       reference = f;
       referenceFrame = m;

@@ -220,11 +220,12 @@ std::optional<Lattice> findLattice(const std::vector<cv::Mat>& frames,
   if (candidates.size() < 2) return std::nullopt;
   // A lattice vector repeats: its double is a peak too. Offsets between the
   // posts of one trap (the motif) do not.
+  // (A double beyond the reliable lags cannot be checked and is not held
+  // against the candidate.)
   for (auto& c : candidates) {
     const cv::Point2d two = 2 * c.lag;
-    float v2 = 0;
-    if (std::abs(two.x) <= maxLag * 1.25 && std::abs(two.y) <= maxLag * 1.25)
-      ac.refine(two, 1, &v2);
+    float v2 = c.value;
+    if (std::abs(two.x) <= maxLag && std::abs(two.y) <= maxLag) ac.refine(two, 1, &v2);
     c.score = std::min<double>(c.value, v2);
   }
   double best = 0;

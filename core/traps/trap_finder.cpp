@@ -217,10 +217,13 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
   cv::distanceTransform(freeSpace, dist, cv::DIST_L2, cv::DIST_MASK_PRECISE);
   double dmaxFree = 0;
   cv::minMaxLoc(dist, nullptr, &dmaxFree);
+  // The cup centre: the centroid of the free space deep inside the trap
+  // (where a disc at least 60% as large as the largest that fits can sit).
+  // A centroid over that region, unlike the single deepest point, stays put
+  // when the cup is a channel whose deepest points form a ridge.
   cv::Point2d cup;
   if (dmaxFree >= 2.0) {
-    const cv::Mat top = dist >= dmaxFree - 0.5;
-    const cv::Moments mo = cv::moments(top, true);
+    const cv::Moments mo = cv::moments(dist >= 0.6 * dmaxFree, true);
     cup = {mo.m10 / mo.m00, mo.m01 / mo.m00};
   } else {
     const cv::Moments mo = cv::moments(M, true);

@@ -10,9 +10,9 @@
 //     split into parts; parts that repeat by a lattice vector are the same
 //     part of different traps, and one of each, as close together as
 //     possible, makes up one trap.
-//  3. The cup centre is the centre of the largest disc that fits between the
-//     trap's parts inside their convex hull: where a cell sits, whatever
-//     the shape of the posts.
+//  3. The cup centre is the middle of the free space deep inside the convex
+//     hull of the trap's parts (where the largest discs fit between them):
+//     where a cell sits, whatever the shape of the posts.
 //  4. Every site is matched against the template (normalised correlation,
 //     a few pixels of search), the lattice is refitted to the matches by
 //     least squares, and sites that do not look like the template (outside
