@@ -113,6 +113,8 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     // Never search as far as a neighbouring trap: that is where a wrong,
     // lattice-shifted match would be.
     if (reg.searchRadius <= 0) reg.searchRadius = 0.45 * out.surveyLattice->minPitch();
+    reg.latticeA = out.surveyLattice->a;
+    reg.latticeB = out.surveyLattice->b;
   } else {
     out.note = "no trap lattice in the survey frames: registered on the whole image";
   }

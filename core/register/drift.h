@@ -20,7 +20,7 @@ struct FrameDrift {
   // How far the measurement can be trusted, in [0, 1]: how well the frame's
   // structure matches the reference once aligned (`match`) relative to the
   // movie's median match, capped at 1, times min(1, focus / 0.5), halved when
-  // the refinement failed.
+  // the refinement failed; at most 0.3 for an interpolated frame.
   double confidence = 0;
   // Sharpness relative to the movie's median frame (1 = typical, < 0.5 = blurred).
   double focus = 0;

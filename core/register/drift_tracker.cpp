@@ -5,6 +5,9 @@
 
 namespace budledger::registration {
 namespace {
+// A frame filled in from its neighbours was not measured: never more than this.
+constexpr double kInterpolatedConfidence = 0.3;
+
 double median(std::vector<double> v) {
   if (v.empty()) return 0;
   const auto mid = v.begin() + static_cast<long>(v.size() / 2);
@@ -79,7 +82,7 @@ DriftTrack DriftTracker::finish() const {
     if (good[i]) continue;
     auto& d = track[i];
     d.flags |= FrameDrift::kInterpolated;
-    d.confidence = std::min(d.confidence, options_.failFraction);
+    d.confidence = std::min(d.confidence, kInterpolatedConfidence);
     if (trusted.empty()) continue;
     const auto after = std::lower_bound(trusted.begin(), trusted.end(), i);
     if (after == trusted.begin()) {

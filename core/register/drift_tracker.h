@@ -19,7 +19,7 @@ namespace budledger::registration {
 struct TrackOptions {
   // A frame whose match is below this fraction of the median match is
   // treated as unmeasurable and interpolated.
-  double failFraction = 0.6;
+  double failFraction = 0.75;
   // A shift differing from both neighbours by more than this (px) while they
   // agree is an outlier.
   double outlierPx = 2.0;

@@ -57,6 +57,17 @@ Registrar::Registrar(const cv::Mat& reference, const cv::Mat& structure,
   coarse_.setReference(smallFeatures_);
 }
 
+bool Registrar::isAlias(cv::Point2d d) const {
+  const cv::Point2d a = options_.latticeA, b = options_.latticeB;
+  const double det = a.x * b.y - a.y * b.x;
+  if (std::abs(det) < 1e-6) return false;
+  const double i = std::round((d.x * b.y - d.y * b.x) / det);
+  const double j = std::round((a.x * d.y - a.y * d.x) / det);
+  if (i == 0 && j == 0) return false;
+  const double tol = 0.2 * std::min(std::hypot(a.x, a.y), std::hypot(b.x, b.y));
+  return std::hypot(d.x - i * a.x - j * b.x, d.y - i * a.y - j * b.y) < tol;
+}
+
 Registrar::FinePatch* Registrar::finePatchFor(cv::Point shift) {
   // The patch stays near the centre but inside both the reference and the
   // shifted frame, with a margin for filters and sampling; even sizes keep
@@ -112,7 +123,7 @@ Measurement Registrar::measure(const cv::Mat& frame, cv::Point2d prediction) {
   const cv::Point2d apart = global.shift - chosen.shift;
   const cv::Point2d globalShift = global.shift * f + ws;
   if (std::hypot(apart.x, apart.y) > 2.0 && global.value > options_.jumpRatio * chosen.value &&
-      std::hypot(globalShift.x, globalShift.y) <= maxShift_) {
+      std::hypot(globalShift.x, globalShift.y) <= maxShift_ && !isAlias(apart * f)) {
     chosen = global;
     m.jump = true;
   }

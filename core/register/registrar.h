@@ -28,6 +28,9 @@ struct RegistrationOptions {
   double searchRadius = 0;    // bound on |shift - prediction| in px; 0 = a quarter of the window
   double maxShift = 0;        // bound on |shift| in px; 0 = 45% of the frame's smaller side
   double jumpRatio = 1.6;     // a peak outside the search disc must be this much higher to win
+  // The chip's lattice vectors, when known: a far peak one lattice vector
+  // (or a few) from the near one is an alias of it, never a jump.
+  cv::Point2d latticeA{0, 0}, latticeB{0, 0};
   int refineIterations = 4;  // Gauss-Newton iterations per resolution (most frames need two)
   bool robust = true;        // reweight the full-resolution refinement by residual
 };
@@ -57,6 +60,7 @@ class Registrar {
     TranslationRefiner half, full;
   };
   FinePatch* finePatchFor(cv::Point shift);  // nullptr when the shift leaves no room
+  bool isAlias(cv::Point2d offset) const;
 
   RegistrationOptions options_;
   cv::Size frameSize_;
