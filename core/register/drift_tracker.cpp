@@ -74,7 +74,10 @@ DriftTrack DriftTracker::finish() const {
     if (ab > options_.outlierPx && bc > options_.outlierPx && ac < options_.outlierPx / 2)
       good[i] = false;
   }
-  // Fill unmeasurable frames by linear interpolation between trusted ones.
+  // Fill unmeasurable frames from trusted neighbours: linearly while the
+  // stage moves smoothly; across a jump, from the side the frame's own
+  // (poor) measurement agrees with, since a blurred frame still tells
+  // before from after.
   std::vector<size_t> trusted;
   for (size_t i = 0; i < n; ++i)
     if (good[i]) trusted.push_back(i);
@@ -85,18 +88,27 @@ DriftTrack DriftTracker::finish() const {
     d.confidence = std::min(d.confidence, kInterpolatedConfidence);
     if (trusted.empty()) continue;
     const auto after = std::lower_bound(trusted.begin(), trusted.end(), i);
+    const cv::Point2d measured(d.dx, d.dy);
+    auto at = [&](size_t k) { return cv::Point2d(track[k].dx, track[k].dy); };
+    cv::Point2d fill;
     if (after == trusted.begin()) {
-      d.dx = track[*after].dx;
-      d.dy = track[*after].dy;
+      fill = at(*after);
     } else if (after == trusted.end()) {
-      d.dx = track[trusted.back()].dx;
-      d.dy = track[trusted.back()].dy;
+      fill = at(trusted.back());
     } else {
       const size_t lo = *(after - 1), hi = *after;
-      const double t = static_cast<double>(frames_[i] - frames_[lo]) / (frames_[hi] - frames_[lo]);
-      d.dx = track[lo].dx + t * (track[hi].dx - track[lo].dx);
-      d.dy = track[lo].dy + t * (track[hi].dy - track[lo].dy);
+      const cv::Point2d a = at(lo), b = at(hi);
+      if (cv::norm(b - a) <= options_.jumpPx) {
+        const double t = static_cast<double>(frames_[i] - frames_[lo]) / (frames_[hi] - frames_[lo]);
+        fill = a + t * (b - a);
+      } else if (std::min(cv::norm(measured - a), cv::norm(measured - b)) < options_.outlierPx) {
+        fill = measured;
+      } else {
+        fill = cv::norm(measured - a) <= cv::norm(measured - b) ? a : b;
+      }
     }
+    d.dx = fill.x;
+    d.dy = fill.y;
   }
   // Relative to frame 0, whichever frame was the reference.
   if (n > 0) {
