@@ -23,6 +23,8 @@ int main(int argc, char** argv) {
   addSummaryCommand(app, action);
   addSimulateCommand(app, action);
   addStatsCommand(app, action);
+  addAnalyzeCommand(app, action);
+  addExportCommand(app, action);
 
   try {
     app.parse(argc, argv);
