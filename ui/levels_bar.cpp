@@ -19,10 +19,12 @@ LevelsBar::LevelsBar(QWidget* parent) : QWidget(parent) {
   brightness_->setObjectName(QStringLiteral("brightness"));
   brightness_->setRange(0, 100);
   brightness_->setToolTip(tr("Brightness"));
+  brightness_->setMinimumWidth(90);
   contrast_ = new QSlider(Qt::Horizontal, this);
   contrast_->setObjectName(QStringLiteral("contrast"));
   contrast_->setRange(0, 100);
   contrast_->setToolTip(tr("Contrast"));
+  contrast_->setMinimumWidth(90);
   auto* autoButton = new QPushButton(tr("Auto"), this);
   autoButton->setObjectName(QStringLiteral("autoLevels"));
   autoButton->setToolTip(tr("Levels from the current trap's crop (L)"));

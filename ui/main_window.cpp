@@ -234,12 +234,19 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   std::shared_ptr<const CropSource> source;
   try {
     session = std::make_unique<ReviewSession>(path, store::Database::Access::ReadWrite);
-    if (options_.cropSources) source = options_.cropSources(*session);
   } catch (const std::exception& e) {
     const QString why = QString::fromStdString(e.what());
     if (!quiet) QMessageBox::critical(this, tr("Cannot open project"), why);
     say(tr("Could not open %1").arg(path));
     return why;
+  }
+  // Missing images do not stop the review: events, results and the journal
+  // live in the project file; the strips say that pictures are unavailable.
+  QString imagesProblem;
+  try {
+    if (options_.cropSources) source = options_.cropSources(*session);
+  } catch (const std::exception& e) {
+    imagesProblem = QString::fromStdString(e.what());
   }
   closeProject();
   session_ = std::move(session);
@@ -272,9 +279,16 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   auto* combo = workspace_->positions();
   combo->clear();
   for (const auto& p : session_->positions())
-    combo->addItem(
-        tr("%1 (%2)").arg(QString::fromStdString(p.name), QString::fromStdString(p.group)), p.id);
+    combo->addItem(p.group.empty() ? QString::fromStdString(p.name)
+                                   : tr("%1 (%2)").arg(QString::fromStdString(p.name),
+                                                       QString::fromStdString(p.group)),
+                   p.id);
   if (!session_->positions().empty()) showPosition(session_->positions().front().id);
+  // Proofreading starts on full crops when there are pictures, else on the whole movie.
+  if (loader_)
+    strips()->zoomToCrops();
+  else
+    strips()->zoomToFit();
   workspace_->showBanner(session_->readOnly()
                              ? tr("Read-only: another BudLedger holds this project. You can look "
                                   "but not edit; close it there to edit here.")
@@ -283,6 +297,16 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   RecentProjects(settings_).add(path);
   rebuildRecentMenu();
   updateEditability();
+  if (!imagesProblem.isEmpty()) {
+    say(tr("Opened without images: %1").arg(imagesProblem));
+    if (!quiet)
+      QMessageBox::warning(this, tr("Images not available"),
+                           tr("The project opened, but its images cannot be read:\n%1\n\nYou "
+                              "can review events and results; the strips show no pictures.")
+                               .arg(imagesProblem));
+    strips()->setFocus();
+    return std::nullopt;
+  }
   say(tr("Opened %1: %2")
           .arg(QFileInfo(path).fileName(), counted(static_cast<long>(session_->allTraps().size()),
                                                    tr("%1 trap"), tr("%1 traps"))));

@@ -80,8 +80,11 @@ void ResultsPanel::refresh() {
   int divisions = 0;
   for (const auto& t : tenures) divisions += t.divisions;
   title_->setText(
-      tr("<b>Position %1, trap %2</b>: %3, %4")
-          .arg(trap_->position)
+      tr("<b>%1, trap %2</b>: %3, %4")
+          .arg(session_->position(trap_->position)
+                   ? QString::fromStdString(session_->position(trap_->position)->name)
+                         .toHtmlEscaped()
+                   : QString::number(trap_->position))
           .arg(trap_->trap)
           .arg(counted(static_cast<long>(tenures.size()), tr("%1 mother"), tr("%1 mothers")),
                counted(divisions, tr("%1 division"), tr("%1 divisions"))));

@@ -25,12 +25,25 @@ ThumbnailLoader::~ThumbnailLoader() {
   pool_.waitForDone();
 }
 
-QImage ThumbnailLoader::fetch(const ThumbnailKey& key, bool* fresh) {
+QImage ThumbnailLoader::fetch(const ThumbnailKey& key, bool* fresh, const void* owner) {
   const ThumbnailCache::Entry* e = cache_.find(key);
   const bool isFresh = e && e->levelsStamp == stamp_;
   if (fresh) *fresh = isFresh;
-  if (!isFresh && source_) enqueue(key);
+  if (!isFresh && source_) enqueue(key, owner);
   return e ? e->image : QImage();
+}
+
+void ThumbnailLoader::dropQueued(const void* owner,
+                                 const std::function<bool(const ThumbnailKey&)>& keep) {
+  std::lock_guard lock(mutex_);
+  for (auto it = queue_.begin(); it != queue_.end();) {
+    if (it->owner == owner && !keep(it->key)) {
+      queued_.remove(it->key);
+      it = queue_.erase(it);
+    } else {
+      ++it;
+    }
+  }
 }
 
 void ThumbnailLoader::setLevels(const DisplayLevels& levels) {
@@ -56,11 +69,11 @@ int ThumbnailLoader::pendingJobs() const {
   return static_cast<int>(queue_.size()) + running_ + delivering_;
 }
 
-void ThumbnailLoader::enqueue(const ThumbnailKey& key) {
+void ThumbnailLoader::enqueue(const ThumbnailKey& key, const void* owner) {
   std::lock_guard lock(mutex_);
   if (stopping_ || queued_.contains(key)) return;
   queued_.insert(key);
-  queue_.push_back({key, levels_, stamp_, pass_.load()});
+  queue_.push_back({key, levels_, stamp_, owner});
   if (running_ < pool_.maxThreadCount()) {
     ++running_;
     pool_.start([this] { work(); });
@@ -72,11 +85,7 @@ void ThumbnailLoader::work() {
     Job job;
     {
       std::lock_guard lock(mutex_);
-      // Newest first; anything requested two or more passes ago is off screen.
-      while (!queue_.empty() && queue_.front().pass + 1 < pass_.load()) {
-        queued_.remove(queue_.front().key);
-        queue_.pop_front();
-      }
+      // Newest first: the latest requests are what is on screen now.
       if (queue_.empty() || stopping_) {
         --running_;
         return;

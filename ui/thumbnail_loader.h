@@ -5,15 +5,18 @@
 // paints a placeholder — or the stale image — until ready() arrives.
 //
 // Jobs run on a private QThreadPool, newest request first, because the newest
-// requests are what is on screen now; requests from paint passes more than one
-// pass old are dropped unstarted when the user has scrolled on. Results are
-// handed back through queued calls, so the cache is touched on the UI thread
-// only. The destructor drops the queue and waits for running jobs.
+// requests are what is on screen now. A view that scrolls on tells the loader
+// which of its queued requests it still wants (dropQueued), so work for what
+// left the screen is dropped unstarted — by visibility, not by age, since a
+// view that blits on scroll does not ask again for what stayed on screen.
+// Results are handed back through queued calls, so the cache is touched on
+// the UI thread only. The destructor drops the queue and waits for running jobs.
 #include <QObject>
 #include <QSet>
 #include <QThreadPool>
 #include <atomic>
 #include <deque>
+#include <functional>
 #include <memory>
 #include <mutex>
 
@@ -41,9 +44,10 @@ class ThumbnailLoader : public QObject {
   const CropSource* source() const { return source_.get(); }
   // The cached image for `key` (null when none yet); queues a job when the
   // image is missing or `*fresh` would be false (made under older levels).
-  QImage fetch(const ThumbnailKey& key, bool* fresh = nullptr);
-  // Starts a new paint pass; see the class comment.
-  void beginPass() { ++pass_; }
+  // `owner` tags the request for dropQueued().
+  QImage fetch(const ThumbnailKey& key, bool* fresh = nullptr, const void* owner = nullptr);
+  // Forgets `owner`'s queued (not yet started) requests that `keep` rejects.
+  void dropQueued(const void* owner, const std::function<bool(const ThumbnailKey&)>& keep);
   void setLevels(const DisplayLevels& levels);
   const DisplayLevels& levels() const { return levels_; }
   void clear();
@@ -70,9 +74,9 @@ class ThumbnailLoader : public QObject {
     ThumbnailKey key;
     DisplayLevels levels;
     int stamp = 0;
-    quint64 pass = 0;
+    const void* owner = nullptr;
   };
-  void enqueue(const ThumbnailKey& key);
+  void enqueue(const ThumbnailKey& key, const void* owner);
   void work();
   void deliver(const ThumbnailKey& key, QImage image, int stamp, const QString& error);
 
@@ -81,7 +85,6 @@ class ThumbnailLoader : public QObject {
   QThreadPool pool_;
   DisplayLevels levels_;
   int stamp_ = 1;
-  std::atomic<quint64> pass_{0};
 
   mutable std::mutex mutex_;  // guards the fields below
   std::deque<Job> queue_;

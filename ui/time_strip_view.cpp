@@ -102,6 +102,7 @@ void TimeStripView::relayout() {
   viewport()->update();
   header_->update();
   labels_->update();
+  pruneRequests();
 }
 
 void TimeStripView::updateScrollBars() {
@@ -127,6 +128,36 @@ void TimeStripView::scrollContentsBy(int dx, int dy) {
   viewport()->scroll(dx, dy);
   if (dx) header_->update();
   if (dy) labels_->update();
+  pruneRequests();
+}
+
+QSize TimeStripView::cropRequestSize() const {
+  const double dpr = devicePixelRatioF();
+  const double scale = std::min(axis_.pixelsPerFrame() / cropSize_.width(),
+                                geometry_.stripHeight() / cropSize_.height());
+  // Quantised request heights keep zooming from filling the cache with near-duplicates.
+  const int reqH = roundUpTo(cropSize_.height() * scale * dpr, 8);
+  return {std::max(1, static_cast<int>(
+                          std::lround(reqH * cropSize_.width() / double(cropSize_.height())))),
+          reqH};
+}
+
+void TimeStripView::pruneRequests() {
+  if (!loader_ || lanes_.empty()) return;
+  const QRectF view(horizontalScrollBar()->value(), verticalScrollBar()->value(),
+                    viewport()->width(), viewport()->height());
+  const auto frames = axis_.framesIn(view.left(), view.right());
+  const auto lanes = geometry_.lanesIn(view.top(), view.bottom());
+  if (lanes.first > lanes.second || frames.first > frames.second) {
+    loader_->dropQueued(this, [](const ThumbnailKey&) { return false; });
+    return;
+  }
+  const auto lo = lanes_.begin() + lanes.first, hi = lanes_.begin() + lanes.second + 1;
+  loader_->dropQueued(this, [&](const ThumbnailKey& k) {
+    if (std::find(lo, hi, k.trap) == hi) return false;
+    const int span = k.kind == ThumbnailKind::Crop ? 1 : k.size.width();
+    return k.frame <= frames.second && k.frame + span - 1 >= frames.first;
+  });
 }
 
 QPointF TimeStripView::contentPos(QPointF vp) const {
@@ -301,7 +332,6 @@ void TimeStripView::paintViewport(QPainter& p, const QRect& rect) {
                session_ ? tr("This position has no traps.") : tr("No project open."));
     return;
   }
-  if (loader_) loader_->beginPass();
   p.save();
   p.translate(-hs, -vs);
   const QRectF content = QRectF(rect).translated(hs, vs);
@@ -342,22 +372,17 @@ void TimeStripView::paintStrip(QPainter& p, int lane, std::pair<int, int> frames
 
 void TimeStripView::paintCrops(QPainter& p, int lane, std::pair<int, int> frames) {
   const TrapId trap = lanes_[static_cast<size_t>(lane)];
-  const double dpr = devicePixelRatioF();
   const double ppf = axis_.pixelsPerFrame();
   const double scale =
       std::min(ppf / cropSize_.width(), geometry_.stripHeight() / cropSize_.height());
   const QSizeF drawn(cropSize_.width() * scale, cropSize_.height() * scale);
-  // Quantised request heights keep zooming from filling the cache with near-duplicates.
-  const int reqH = roundUpTo(drawn.height() * dpr, 8);
-  const QSize req(std::max(1, static_cast<int>(std::lround(reqH * cropSize_.width() /
-                                                           double(cropSize_.height())))),
-                  reqH);
+  const QSize req = cropRequestSize();
   const bool separators = ppf >= 24;
   for (int f = frames.first; f <= frames.second; ++f) {
     const QRectF slot = geometry_.slotRect(axis_, lane, f);
     const QRectF target(slot.center().x() - drawn.width() / 2,
                         slot.center().y() - drawn.height() / 2, drawn.width(), drawn.height());
-    const QImage img = loader_->fetch({trap, f, req, ThumbnailKind::Crop});
+    const QImage img = loader_->fetch({trap, f, req, ThumbnailKind::Crop}, nullptr, this);
     if (img.isNull())
       p.fillRect(target, kPlaceholder);
     else
@@ -379,7 +404,8 @@ void TimeStripView::paintKymograph(QPainter& p, int lane, std::pair<int, int> fr
     const int n = std::min(T, axis_.frameCount() - start);
     const QRectF r(axis_.frameLeft(start), top, n * axis_.pixelsPerFrame(),
                    geometry_.stripHeight());
-    const QImage img = loader_->fetch({trap, start, QSize(n, h), ThumbnailKind::KymographTile});
+    const QImage img =
+        loader_->fetch({trap, start, QSize(n, h), ThumbnailKind::KymographTile}, nullptr, this);
     if (img.isNull())
       p.fillRect(r, kPlaceholder);
     else

@@ -97,6 +97,9 @@ class TimeStripView : public QAbstractScrollArea {
   void relayout();
   void updateScrollBars();
   void ensureCursorVisible();
+  // Drops queued thumbnail requests for what is no longer on screen.
+  void pruneRequests();
+  QSize cropRequestSize() const;
   void onTrapChanged(TrapId trap);
   void onThumbnailReady(const ThumbnailKey& key);
   QPointF contentPos(QPointF viewportPos) const;

@@ -45,8 +45,12 @@ void TrapImageView::onReady(const ThumbnailKey& key) {
 
 QString TrapImageView::caption() const {
   if (!trap_ || !session_) return tr("No trap selected");
+  const auto* pos = session_->position(trap_->position);
   QString text =
-      tr("Position %1, trap %2, frame %3").arg(trap_->position).arg(trap_->trap).arg(frame_);
+      tr("%1, trap %2, frame %3")
+          .arg(pos ? QString::fromStdString(pos->name) : QString::number(trap_->position))
+          .arg(trap_->trap)
+          .arg(frame_);
   // The engine's reading of this frame, when it has one.
   for (const auto& m : session_->measurements(*trap_)) {
     if (m.frame != frame_) continue;

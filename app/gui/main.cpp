@@ -16,6 +16,7 @@
 #include "core/export/summary.h"
 #include "core/store/project.h"
 #include "ui/main_window.h"
+#include "ui/project_crop_source.h"
 
 namespace {
 
@@ -81,7 +82,11 @@ int main(int argc, char** argv) {
   if (style.open(QIODevice::ReadOnly)) app.setStyleSheet(QString::fromUtf8(style.readAll()));
 
   QSettings settings;
-  budledger::ui::MainWindow window(settings);
+  budledger::ui::MainWindowOptions options;
+  options.cropSources = [](budledger::ui::ReviewSession& session) {
+    return budledger::ui::ProjectCropSource::open(session.project());
+  };
+  budledger::ui::MainWindow window(settings, options);
   window.show();
   if (!projectPath.empty()) {
     const bool quiet = !screenshot.empty();
@@ -92,6 +97,11 @@ int main(int argc, char** argv) {
   }
   if (!screenshot.empty()) {
     QTimer::singleShot(300, &window, [&window, &screenshot] {
+      // Pictures are made in the background: let them arrive before the shot.
+      for (int i = 0; i < 3 && window.loader(); ++i) {
+        window.loader()->waitForIdle();
+        QApplication::processEvents();
+      }
       const bool ok = window.grab().save(QString::fromStdString(screenshot), "PNG");
       if (!ok) fmt::print(stderr, "budledger: cannot write screenshot '{}'\n", screenshot);
       QApplication::exit(ok ? 0 : 1);

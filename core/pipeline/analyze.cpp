@@ -291,6 +291,9 @@ int writePosition(store::Project& project, const PositionAnalysis& a, const Anal
   }
   if (!a.info.channelName.empty()) project.setMeta(prefix + "channel", a.info.channelName);
   project.setMeta(prefix + "reference_frame", std::to_string(a.referenceFrame));
+  // The crop box thumbnails and measurements use, so views cut the same window.
+  project.setMeta(prefix + "crop_box", fmt::format("{} {} {} {}", a.layout.crop.x, a.layout.crop.y,
+                                                   a.layout.crop.width, a.layout.crop.height));
   project.setMeta(prefix + "trap_layout",
                   a.layout.source == traps::TrapLayout::Source::Supplied ? "supplied" : "detected");
   if (stages.size()) {

@@ -172,8 +172,8 @@ class ThumbnailTest : public QObject {
     QVERIFY(failed.first().first().toString().contains(QStringLiteral("stack.tif")));
   }
 
-  void oldRequestsAreDroppedWhenScrolledAway() {
-    // Slow crops: while the first is being made, the view moves on by two passes.
+  void requestsLeavingTheScreenAreDropped() {
+    // Slow crops: while the first is being made, the view scrolls on.
     class Slow : public CountingSource {
      public:
       QImage crop(TrapId t, int f) const override {
@@ -183,15 +183,19 @@ class ThumbnailTest : public QObject {
     };
     auto src = std::make_shared<Slow>();
     ThumbnailLoader loader(src, {1 << 20, 1});
-    loader.beginPass();
-    for (int f = 0; f < 10; ++f) loader.fetch({{1, 1}, f, QSize(12, 20), ThumbnailKind::Crop});
-    loader.beginPass();
-    loader.beginPass();
-    loader.fetch({{1, 1}, 50, QSize(12, 20), ThumbnailKind::Crop});
+    int view = 0, other = 0;  // two owners
+    for (int f = 0; f < 10; ++f)
+      loader.fetch({{1, 1}, f, QSize(12, 20), ThumbnailKind::Crop}, nullptr, &view);
+    loader.fetch({{1, 2}, 0, QSize(12, 20), ThumbnailKind::Crop}, nullptr, &other);
+    // The view now shows frames 8 and up only; the other owner's request is not its to drop.
+    loader.dropQueued(&view, [](const ThumbnailKey& k) { return k.frame >= 8; });
     loader.waitForIdle();
-    // At most the job already running when the user scrolled on, plus the new one.
-    QVERIFY(src->calls.load() <= 3);
-    QVERIFY(!loader.fetch({{1, 1}, 50, QSize(12, 20), ThumbnailKind::Crop}).isNull());
+    // At most the job already running, frames 8 and 9, and the other owner's crop.
+    QVERIFY(src->calls.load() <= 4);
+    QVERIFY(!loader.fetch({{1, 1}, 9, QSize(12, 20), ThumbnailKind::Crop}).isNull());
+    QVERIFY(!loader.fetch({{1, 2}, 0, QSize(12, 20), ThumbnailKind::Crop}).isNull());
+    QVERIFY(loader.fetch({{1, 1}, 3, QSize(12, 20), ThumbnailKind::Crop}).isNull() ||
+            src->calls.load() <= 4);
   }
 };
 
