@@ -243,6 +243,9 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
                     cv::Point2f(static_cast<float>(tplBox.x + (tplBox.width - 1) / 2.0),
                                 static_cast<float>(tplBox.y + (tplBox.height - 1) / 2.0)),
                     tpl, CV_32F);
+  cv::Scalar tplMean, tplSd;
+  cv::meanStdDev(tpl, tplMean, tplSd);
+  const double tplContrast = tplSd[0];
   // Template centre relative to the cup centre.
   const cv::Point2d tplOffset(tplBox.x + (tplBox.width - 1) / 2.0 - cup.x,
                               tplBox.y + (tplBox.height - 1) / 2.0 - cup.y);
@@ -280,6 +283,11 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
       double best = 0;
       cv::Point at;
       cv::minMaxLoc(score, nullptr, &best, nullptr, &at);
+      // A featureless site (a wall, an empty part of the chip) can correlate
+      // "perfectly" by rounding; it must show the template's contrast.
+      cv::Scalar mean, sd;
+      cv::meanStdDev(area(cv::Rect(at, tpl.size())), mean, sd);
+      if (sd[0] < 0.3 * tplContrast) best = 0;
       auto vertex = [](double m, double c0, double p) {
         const double den = m - 2 * c0 + p;
         return den < 0 ? std::clamp(0.5 * (m - p) / den, -0.5, 0.5) : 0.0;
@@ -304,6 +312,10 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
       cv::Mat score;
       cv::matchTemplate(a, b, score, cv::TM_CCOEFF_NORMED);
       site.score = score.at<float>(0, 0);
+      cv::Scalar mean, sd, tmean, tsd;
+      cv::meanStdDev(a, mean, sd);
+      cv::meanStdDev(b, tmean, tsd);
+      if (sd[0] < 0.3 * tsd[0]) site.score = 0;
       site.matched = c;
     }
     sites.push_back(site);

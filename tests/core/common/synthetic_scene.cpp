@@ -127,6 +127,19 @@ cv::Mat SyntheticScene::render(const FrameEffects& fx) const {
       }
     }
   }
+  // Dust on the camera: soft dark spots at fixed image positions.
+  cv::RNG dust(o_.seed * 31 + 5);
+  for (int k = 0; k < o_.dustSpots; ++k) {
+    const cv::Point2d c(dust.uniform(0.0, 1.0 * w), dust.uniform(0.0, 1.0 * h));
+    const double r = dust.uniform(4.0, 14.0), depth = dust.uniform(0.1, 0.3);
+    for (int y = std::max(0, int(c.y - 2 * r)); y < std::min(h, int(c.y + 2 * r)); ++y) {
+      auto* row = img.ptr<float>(y);
+      for (int x = std::max(0, int(c.x - 2 * r)); x < std::min(w, int(c.x + 2 * r)); ++x) {
+        const double d2 = ((x - c.x) * (x - c.x) + (y - c.y) * (y - c.y)) / (r * r);
+        row[x] *= static_cast<float>(1 - depth * std::exp(-d2));
+      }
+    }
+  }
   if (fx.blurSigma > 0) cv::GaussianBlur(img, img, cv::Size(), fx.blurSigma);
   img *= fx.gain;
   cv::Mat noise(h, w, CV_32F);
