@@ -18,6 +18,7 @@ using Action = std::function<int()>;
 
 void addSummaryCommand(CLI::App& root, Action& action);
 void addSimulateCommand(CLI::App& root, Action& action);
+void addStatsCommand(CLI::App& root, Action& action);
 void addAnalyzeCommand(CLI::App& root, Action& action);
 void addExportCommand(CLI::App& root, Action& action);
 
