@@ -12,5 +12,13 @@ namespace budledger::cli {
 using Action = std::function<int()>;
 
 void addSummaryCommand(CLI::App& root, Action& action);
+void addEditCommand(CLI::App& root, Action& action);
+void addLogCommand(CLI::App& root, Action& action);
+void addVerifyCommand(CLI::App& root, Action& action);
+void addSignoffCommand(CLI::App& root, Action& action);
+void addUndoCommand(CLI::App& root, Action& action);
+void addRedoCommand(CLI::App& root, Action& action);
+void addMergeCommand(CLI::App& root, Action& action);
+void addExportCommand(CLI::App& root, Action& action);
 
 }  // namespace budledger::cli

@@ -21,6 +21,14 @@ int main(int argc, char** argv) {
 
   Action action;
   addSummaryCommand(app, action);
+  addEditCommand(app, action);
+  addLogCommand(app, action);
+  addVerifyCommand(app, action);
+  addSignoffCommand(app, action);
+  addUndoCommand(app, action);
+  addRedoCommand(app, action);
+  addMergeCommand(app, action);
+  addExportCommand(app, action);
 
   try {
     app.parse(argc, argv);

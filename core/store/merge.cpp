@@ -298,8 +298,8 @@ MergeSummary mergeProjects(const MergeRequest& req) {
         Ids ids;
         copySource(s, out, writer, ids);
         const auto head = journalHead(s.project->db());
-        from += fmt::format("{}{} ({} entries, head {})", from.empty() ? "" : ", ", s.file,
-                            head.seq, head.hash);
+        from += fmt::format("{}{} ({} entr{}, head {})", from.empty() ? "" : ", ", s.file, head.seq,
+                            head.seq == 1 ? "y" : "ies", head.hash);
       }
       out.setMeta("merged_from", from);
       JournalEntry note;

@@ -2,6 +2,9 @@
 // tests, not a user tool.
 //   journal_storm fixture PATH [POSITIONS TRAPS FRAMES SEED PREFIX GROUP]
 //     creates a project with positions, traps and one engine run (fixture.h).
+//   journal_storm sql PATH SQL
+//     runs SQL on PATH through a plain connection, as someone changing the
+//     file behind BudLedger's back would (the end-to-end verify tests).
 //   journal_storm storm PATH SEED [COUNT]
 //     edits PATH at random, printing "ack <seq> <hash>" on stdout after each
 //     edit has committed — the moment the edit counts as done — until COUNT
@@ -99,6 +102,12 @@ int storm(int argc, char** argv) {
   return 0;
 }
 
+int sql(char** argv) {
+  Database raw(argv[2], Database::Access::ReadWrite);
+  raw.exec(argv[3]);
+  return 0;
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -106,8 +115,10 @@ int main(int argc, char** argv) {
     const std::string verb = argc > 1 ? argv[1] : "";
     if (verb == "fixture" && argc > 2) return fixture(argc, argv);
     if (verb == "storm" && argc > 3) return storm(argc, argv);
+    if (verb == "sql" && argc > 3) return sql(argv);
     std::fprintf(stderr,
                  "usage: journal_storm fixture PATH [POSITIONS TRAPS FRAMES SEED PREFIX GROUP]\n"
+                 "       journal_storm sql PATH SQL\n"
                  "       journal_storm storm PATH SEED [COUNT]\n");
     return 2;
   } catch (const std::exception& e) {
