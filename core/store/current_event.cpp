@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <array>
+#include <charconv>
 #include <nlohmann/json.hpp>
 
 #include "core/store/sqlite.h"
@@ -41,8 +42,48 @@ std::string stateJson(const std::optional<EventState>& s) {
                      s->frame, toString(s->kind), s->position, toString(s->status), s->trap);
 }
 
+namespace {
+
+// Reads the exact text stateJson() writes, without building a JSON tree:
+// replay parses two of these per entry. Returns false for anything else,
+// which then goes through the general parser.
+bool parseCanonical(std::string_view s, EventState& out) {
+  auto literal = [&](std::string_view lit) {
+    if (!s.starts_with(lit)) return false;
+    s.remove_prefix(lit.size());
+    return true;
+  };
+  auto integer = [&](int& v) {
+    const auto [p, ec] = std::from_chars(s.data(), s.data() + s.size(), v);
+    if (ec != std::errc()) return false;
+    s.remove_prefix(static_cast<std::size_t>(p - s.data()));
+    return true;
+  };
+  auto word = [&](std::string_view& w) {
+    const auto q = s.find('"');
+    if (q == std::string_view::npos) return false;
+    w = s.substr(0, q);
+    s.remove_prefix(q);
+    return true;
+  };
+  std::string_view kind, status;
+  if (!(literal(R"({"frame":)") && integer(out.frame) && literal(R"(,"kind":")") && word(kind) &&
+        literal(R"(","position":)") && integer(out.position) && literal(R"(,"status":")") &&
+        word(status) && literal(R"(","trap":)") && integer(out.trap) && literal("}") && s.empty()))
+    return false;
+  const auto k = eventKindFromString(kind);
+  const auto st = eventStatusFromString(status);
+  if (!k || !st) return false;
+  out.kind = *k;
+  out.status = *st;
+  return true;
+}
+
+}  // namespace
+
 std::optional<EventState> parseEventState(std::string_view json) {
   if (json == "null") return std::nullopt;
+  if (EventState fast; parseCanonical(json, fast)) return fast;
   try {
     const auto j = nlohmann::json::parse(json);
     EventState s;

@@ -107,6 +107,11 @@ TEST_F(EditorTest, AcceptRoundTrip) {
   EXPECT_EQ(e->actor, "tech01");
   EXPECT_EQ(e->role, "technician");
   EXPECT_EQ(e->reason, "clear bud");
+  // Computer-generated UTC time with milliseconds (ISO 8601), not typed by anyone.
+  ASSERT_EQ(e->utc.size(), 24u);
+  EXPECT_EQ(e->utc[10], 'T');
+  EXPECT_EQ(e->utc[19], '.');
+  EXPECT_EQ(e->utc.back(), 'Z');
   EXPECT_EQ(e->target, "event:" + std::to_string(bud.event.id));
   EXPECT_NE(e->before.find("\"status\":\"proposed\""), std::string::npos);
   EXPECT_NE(e->after.find("\"status\":\"accepted\""), std::string::npos);
