@@ -10,6 +10,7 @@
 #include "core/store/lifespans.h"
 #include "core/store/materialised.h"
 #include "core/store/replay.h"
+#include "core/store/undo_history.h"
 
 namespace budledger::store {
 
@@ -18,6 +19,9 @@ struct Editor::Impl {
       : project(p),
         db(p.db()),
         writer(db),
+        begin(db.prepare("BEGIN IMMEDIATE")),
+        commit(db.prepare("COMMIT")),
+        rollback(db.prepare("ROLLBACK")),
         selEvent(db.prepare(
             "SELECT event_id, position_id, trap_id, frame, kind, confidence, status, "
             "origin_proposal, proposed_frame, last_seq FROM current_events WHERE event_id = ?1")),
@@ -34,13 +38,6 @@ struct Editor::Impl {
             "SELECT id, scope_name, person FROM signoffs WHERE revoked_seq IS NULL AND "
             "(scope_kind = 'experiment' OR (scope_kind = 'position' AND position_id = ?1) OR "
             "(scope_kind = 'trap' AND position_id = ?1 AND trap_id = ?2)) ORDER BY id LIMIT 1")),
-        top(db.prepare(
-            "SELECT depth, entry_seq FROM edit_history WHERE stack = ?1 ORDER BY depth DESC "
-            "LIMIT 1")),
-        pop(db.prepare("DELETE FROM edit_history WHERE stack = ?1 AND depth = ?2")),
-        push(db.prepare("INSERT INTO edit_history(stack, depth, entry_seq) VALUES (?1, (SELECT "
-                        "COALESCE(MAX(depth) + 1, 0) FROM edit_history WHERE stack = ?1), ?2)")),
-        clearRedo(db.prepare("DELETE FROM edit_history WHERE stack = 'redo'")),
         selOutcome(db.prepare(
             "SELECT outcome FROM outcome_overrides WHERE position_id = ?1 AND trap_id = ?2 AND "
             "mother = ?3")),
@@ -50,14 +47,49 @@ struct Editor::Impl {
             "outcome = excluded.outcome, last_seq = excluded.last_seq")),
         delOutcome(
             db.prepare("DELETE FROM outcome_overrides WHERE position_id = ?1 AND trap_id = ?2 AND "
-                       "mother = ?3")) {}
+                       "mother = ?3")),
+        history(db) {}
 
   Project& project;
   Database& db;
   JournalWriter writer;
+  Statement begin, commit, rollback;
   Statement selEvent, updEvent, insEvent, delEvent, duplicate, trapExists, frameCount, signedCover,
-      top, pop, push, clearRedo, selOutcome, putOutcome, delOutcome;
+      selOutcome, putOutcome, delOutcome;
+  UndoHistory history;
   Listener listener;
+
+  // Positions never change once made; the cache is refilled when it misses
+  // (a position added since).
+  struct PositionInfo {
+    int frameCount = 0;
+    std::string name;
+  };
+  std::map<int, PositionInfo> positions;
+
+  // BEGIN IMMEDIATE … COMMIT with statements prepared once (an edit is short
+  // enough that preparing them each time shows); rolls back unless committed.
+  class Txn {
+   public:
+    explicit Txn(Impl& m) : m_(m) { m_.begin.run(); }
+    ~Txn() {
+      if (done_) return;
+      try {
+        m_.rollback.run();
+      } catch (...) {
+      }
+    }
+    Txn(const Txn&) = delete;
+    Txn& operator=(const Txn&) = delete;
+    void commit() {
+      m_.commit.run();
+      done_ = true;
+    }
+
+   private:
+    Impl& m_;
+    bool done_ = false;
+  };
 
   // ---- checks -------------------------------------------------------------
 
@@ -67,11 +99,8 @@ struct Editor::Impl {
       throw EditRefused("an edit needs the name and role of the person making it");
   }
 
-  struct PositionInfo {
-    int frameCount = 0;
-    std::string name;
-  };
-  PositionInfo position(int id) {
+  const PositionInfo& position(int id) {
+    if (const auto it = positions.find(id); it != positions.end()) return it->second;
     frameCount.bind(1, id);
     if (!frameCount.step()) {
       frameCount.reset();
@@ -79,11 +108,11 @@ struct Editor::Impl {
     }
     PositionInfo info{frameCount.integer(0), frameCount.text(1)};
     frameCount.reset();
-    return info;
+    return positions.emplace(id, std::move(info)).first->second;
   }
 
   void checkTrap(const TrapRef& t) {
-    const auto info = position(t.position);
+    const auto& info = position(t.position);
     trapExists.bind(1, t.position).bind(2, t.trap);
     const bool found = trapExists.step();
     trapExists.reset();
@@ -91,7 +120,7 @@ struct Editor::Impl {
   }
 
   void checkFrame(int positionId, int frame) {
-    const auto info = position(positionId);
+    const auto& info = position(positionId);
     if (frame < 0 || (info.frameCount > 0 && frame >= info.frameCount))
       throw EditRefused(fmt::format("frame {} is outside position '{}' (frames 0–{})", frame,
                                     info.name, info.frameCount - 1));
@@ -150,12 +179,14 @@ struct Editor::Impl {
     return *e;
   }
 
-  void storeEvent(std::int64_t id, const std::optional<EventState>& after, std::int64_t seq) {
+  // `exists`: whether the row is there now (the caller has just read it).
+  void storeEvent(std::int64_t id, const std::optional<EventState>& after, std::int64_t seq,
+                  bool exists) {
     if (!after) {
       delEvent.bind(1, id).run();
       return;
     }
-    if (loadEvent(id)) {
+    if (exists) {
       updEvent.bind(1, id).bind(2, after->frame).bind(3, toString(after->status)).bind(4, seq);
       updEvent.run();
       return;
@@ -186,14 +217,6 @@ struct Editor::Impl {
     }
   }
 
-  std::optional<std::pair<std::int64_t, std::int64_t>> stackTop(const char* stack) {
-    top.bind(1, stack);
-    std::optional<std::pair<std::int64_t, std::int64_t>> out;
-    if (top.step()) out.emplace(top.int64(0), top.int64(1));
-    top.reset();
-    return out;
-  }
-
   // ---- writing ------------------------------------------------------------
 
   JournalEntry entry(const Actor& by, JournalAction action, std::string target, std::string before,
@@ -209,13 +232,7 @@ struct Editor::Impl {
     return e;
   }
 
-  void recordUndoable(std::int64_t seq) {
-    push.bind(1, "undo").bind(2, seq).run();
-    clearRedo.run();
-  }
-
-  Change finish(Transaction& tx, const JournalEntry& e, std::vector<TrapRef> traps,
-                std::string summary) {
+  Change finish(Txn& tx, const JournalEntry& e, std::vector<TrapRef> traps, std::string summary) {
     tx.commit();
     Change c{e.seq, e.action, std::move(traps), std::move(summary)};
     if (listener) listener(c);
@@ -231,7 +248,7 @@ struct Editor::Impl {
   Change eventEdit(const Actor& by, JournalAction action, std::int64_t id, std::string_view reason,
                    Decide decide) {
     checkCaller(by);
-    Transaction tx(db);
+    Txn tx(*this);
     const auto current = requireEvent(id);
     const auto before = stateOf(current);
     const EventState after = decide(current);
@@ -244,8 +261,7 @@ struct Editor::Impl {
     auto e =
         entry(by, action, toString(Target::event(id)), stateJson(before), stateJson(after), reason);
     writer.append(e);
-    storeEvent(id, after, e.seq);
-    recordUndoable(e.seq);
+    storeEvent(id, after, e.seq, true);
     std::string summary =
         after.frame != before.frame
             ? fmt::format("{} {}: frame {} → {} ({})", toString(action), where(after), before.frame,
@@ -258,20 +274,21 @@ struct Editor::Impl {
   // Undo or redo of entry `x`: the values are x's, swapped for undo.
   Change reverse(const Actor& by, bool isUndo, std::string_view reason) {
     checkCaller(by);
-    Transaction tx(db);
-    const auto topEntry = stackTop(isUndo ? "undo" : "redo");
-    if (!topEntry) return Change{};
-    const auto x = readEntry(db, topEntry->second);
-    if (!x)
-      throw StoreError(
-          fmt::format("edit history names entry {}, which is missing", topEntry->second));
+    Txn tx(*this);
+    const auto tops = history.tops();
+    const auto topSeq = isUndo ? tops.undo : tops.redo;
+    if (!topSeq) return Change{};
+    const auto x = readEntry(db, *topSeq);
+    if (!x) throw StoreError(fmt::format("the journal names entry {}, which is missing", *topSeq));
     const auto target = parseTarget(x->target);
     if (!target) throw StoreError(fmt::format("entry {} has no valid target", x->seq));
     const std::string& from = isUndo ? x->after : x->before;
     const std::string& to = isUndo ? x->before : x->after;
     TrapRef trap;
+    bool exists = false;
     if (target->kind == Target::Kind::Event) {
       const auto current = loadEvent(target->id);
+      exists = current.has_value();
       if (stateJson(current ? std::optional(stateOf(*current)) : std::nullopt) != from)
         throw EditRefused(fmt::format("entry {}'s event has changed since; nothing to {}", x->seq,
                                       isUndo ? "undo" : "redo"));
@@ -285,11 +302,9 @@ struct Editor::Impl {
                    toString(Target::entry(x->seq)), from, to, reason);
     writer.append(e);
     if (target->kind == Target::Kind::Event)
-      storeEvent(target->id, parseEventState(to), e.seq);
+      storeEvent(target->id, parseEventState(to), e.seq, exists);
     else
       storeOverride({target->position, target->trap, target->mother}, to, e.seq);
-    pop.bind(1, isUndo ? "undo" : "redo").bind(2, topEntry->first).run();
-    push.bind(1, isUndo ? "redo" : "undo").bind(2, x->seq).run();
     return finish(tx, e, {trap},
                   fmt::format("{} entry {} ({} {})", isUndo ? "undid" : "redid", x->seq,
                               toString(x->action), x->target));
@@ -338,7 +353,7 @@ Change Editor::add(const Actor& by, const TrapRef& trap, int frame, EventKind ki
                    std::string_view reason) {
   auto& m = *impl_;
   m.checkCaller(by);
-  Transaction tx(m.db);
+  Impl::Txn tx(m);
   m.checkTrap(trap);
   m.checkFrame(trap.position, frame);
   const EventState after{trap.position, trap.trap, frame, kind, EventStatus::Added};
@@ -348,8 +363,7 @@ Change Editor::add(const Actor& by, const TrapRef& trap, int frame, EventKind ki
   auto e = m.entry(by, JournalAction::Add, toString(Target::event(id)), "null", stateJson(after),
                    reason);
   m.writer.append(e);
-  m.storeEvent(id, after, e.seq);
-  m.recordUndoable(e.seq);
+  m.storeEvent(id, after, e.seq, false);
   return m.finish(tx, e, {trap},
                   fmt::format("added {} at frame {} (event {})", m.where(after), frame, id));
 }
@@ -358,9 +372,9 @@ Change Editor::setOutcome(const Actor& by, const TenureKey& k, Outcome outcome,
                           std::string_view reason) {
   auto& m = *impl_;
   m.checkCaller(by);
-  Transaction tx(m.db);
+  Impl::Txn tx(m);
   m.checkTrap({k.position, k.trap});
-  const auto info = m.position(k.position);
+  const auto info = m.position(k.position);  // a copy: the cache may grow below
   std::vector<Event> counted;
   for (const auto& e : currentEvents(m.db, TrapRef{k.position, k.trap}))
     if (e.counts()) counted.push_back(e.event);
@@ -377,7 +391,6 @@ Change Editor::setOutcome(const Actor& by, const TenureKey& k, Outcome outcome,
               outcomeJson(current, derived), outcomeJson(outcome, derived), reason);
   m.writer.append(e);
   m.storeOverride(k, e.after, e.seq);
-  m.recordUndoable(e.seq);
   return m.finish(
       tx, e, {{k.position, k.trap}},
       fmt::format("set outcome of mother {} in '{}' trap {}: {} → {}", k.mother, info.name, k.trap,
@@ -389,7 +402,7 @@ Change Editor::note(const Actor& by, const Target& target, std::string_view text
   auto& m = *impl_;
   m.checkCaller(by);
   if (text.empty()) throw EditRefused("a note needs text");
-  Transaction tx(m.db);
+  Impl::Txn tx(m);
   std::vector<TrapRef> traps;
   switch (target.kind) {
     case Target::Kind::Event: {
@@ -429,7 +442,7 @@ Change Editor::signOff(const Actor& by, const Scope& scope, SignMeaning meaning,
                        std::string_view reason) {
   auto& m = *impl_;
   m.checkCaller(by);
-  Transaction tx(m.db);
+  Impl::Txn tx(m);
   if (scope.kind == Scope::Kind::Trap) m.checkTrap({scope.position, scope.trap});
   if (scope.kind == Scope::Kind::Position) m.position(scope.position);
   const auto positions = m.project.positions();
@@ -469,7 +482,7 @@ Change Editor::revoke(const Actor& by, std::int64_t id, std::string_view reason)
   auto& m = *impl_;
   m.checkCaller(by);
   if (reason.empty()) throw EditRefused("revoking a sign-off needs a reason");
-  Transaction tx(m.db);
+  Impl::Txn tx(m);
   std::optional<SignOffRecord> so;
   for (auto& r : signOffs(m.db))
     if (r.id == id) so = r;
@@ -492,13 +505,13 @@ Change Editor::revoke(const Actor& by, std::int64_t id, std::string_view reason)
 }
 
 std::optional<JournalEntry> Editor::nextUndo() {
-  const auto t = impl_->stackTop("undo");
-  return t ? readEntry(impl_->db, t->second) : std::nullopt;
+  const auto t = impl_->history.tops().undo;
+  return t ? readEntry(impl_->db, *t) : std::nullopt;
 }
 
 std::optional<JournalEntry> Editor::nextRedo() {
-  const auto t = impl_->stackTop("redo");
-  return t ? readEntry(impl_->db, t->second) : std::nullopt;
+  const auto t = impl_->history.tops().redo;
+  return t ? readEntry(impl_->db, *t) : std::nullopt;
 }
 
 }  // namespace budledger::store

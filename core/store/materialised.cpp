@@ -68,15 +68,13 @@ ReplayState readState(Database& db) {
   s.outcomes = outcomeOverrides(db);
   for (auto& so : signOffs(db)) s.signoffs.emplace(so.id, so);
   s.review = reviewItems(db);
-  auto st = db.prepare("SELECT stack, entry_seq FROM edit_history ORDER BY stack, depth");
-  while (st.step()) (st.text(0) == "undo" ? s.undo : s.redo).push_back(st.int64(1));
   return s;
 }
 
 void writeState(Database& db, const ReplayState& s) {
   db.exec(
       "DELETE FROM current_events; DELETE FROM outcome_overrides; DELETE FROM signoffs; "
-      "DELETE FROM carry_over_review; DELETE FROM edit_history;");
+      "DELETE FROM carry_over_review;");
   insertEvents(db, s.events);
   auto oc = db.prepare(
       "INSERT INTO outcome_overrides(position_id, trap_id, mother, outcome, last_seq) "
@@ -114,11 +112,11 @@ void writeState(Database& db, const ReplayState& s) {
     so.run();
   }
   insertReview(db, s.review);
-  auto h = db.prepare("INSERT INTO edit_history(stack, depth, entry_seq) VALUES (?1,?2,?3)");
-  for (std::size_t i = 0; i < s.undo.size(); ++i)
-    h.bind(1, "undo").bind(2, static_cast<std::int64_t>(i)).bind(3, s.undo[i]).run();
-  for (std::size_t i = 0; i < s.redo.size(); ++i)
-    h.bind(1, "redo").bind(2, static_cast<std::int64_t>(i)).bind(3, s.redo[i]).run();
+}
+
+bool sameMaterialised(const ReplayState& a, const ReplayState& b) {
+  return a.events == b.events && a.outcomes == b.outcomes && a.signoffs == b.signoffs &&
+         a.review == b.review;
 }
 
 void bindEventRow(Statement& ins, const CurrentEvent& e) {

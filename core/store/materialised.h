@@ -1,7 +1,7 @@
 #pragma once
 // The materialised state: the tables that hold replay()'s result so that
 // views and edits need not replay the journal each time — current_events,
-// outcome_overrides, signoffs, carry_over_review and edit_history. They are a
+// outcome_overrides, signoffs and carry_over_review. They are a
 // cache of the journal, never a source: rebuildState() rewrites them from a
 // replay, and verify compares them with one. Also the read queries the UI and
 // the CLI use.
@@ -19,8 +19,12 @@ namespace budledger::store {
 // Everything replay needs from the file: every run's proposals, position names.
 ReplaySources loadReplaySources(Database& db);
 
-// Reads the materialised tables back as a state (for comparison with replay).
+// Reads the materialised tables back as a state (for comparison with
+// replay); its undo and redo stacks stay empty — they are not stored
+// (undo_history.h).
 ReplayState readState(Database& db);
+// Equal in everything the tables hold (all but the undo and redo stacks).
+bool sameMaterialised(const ReplayState& a, const ReplayState& b);
 // Rewrites every materialised table from `state`, inside the caller's transaction.
 void writeState(Database& db, const ReplayState& state);
 // Row writers shared by writeState, re-analysis and the Editor.

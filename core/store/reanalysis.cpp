@@ -73,7 +73,6 @@ void journalEngineRun(Database& db, std::int64_t run, const std::vector<int>& po
   for (int p : positions) del.bind(1, p).run();
   insertEvents(db, state.events);
   insertReview(db, state.review);
-  db.exec("DELETE FROM edit_history");
 }
 
 }  // namespace budledger::store

@@ -97,7 +97,7 @@ CREATE TABLE journal (
   reason       TEXT NOT NULL,
   origin       TEXT NOT NULL,
   prev_hash    TEXT NOT NULL,
-  hash         TEXT NOT NULL UNIQUE
+  hash         TEXT NOT NULL
 );
 CREATE TRIGGER journal_no_update BEFORE UPDATE ON journal
 BEGIN SELECT RAISE(ABORT, 'the journal is append-only: entries cannot be changed'); END;
@@ -115,7 +115,7 @@ CREATE TABLE current_events (
   proposed_frame  INTEGER,
   last_seq        INTEGER NOT NULL
 );
-CREATE INDEX current_events_by_trap ON current_events(position_id, trap_id, frame);
+CREATE INDEX current_events_by_trap ON current_events(position_id, trap_id);
 CREATE TABLE outcome_overrides (
   position_id INTEGER NOT NULL REFERENCES positions(id),
   trap_id     INTEGER NOT NULL,
@@ -146,12 +146,6 @@ CREATE TABLE carry_over_review (
   kind        TEXT NOT NULL,
   status      TEXT NOT NULL,
   PRIMARY KEY (run_id, event_id)
-);
-CREATE TABLE edit_history (
-  stack     TEXT NOT NULL CHECK (stack IN ('undo','redo')),
-  depth     INTEGER NOT NULL,
-  entry_seq INTEGER NOT NULL,
-  PRIMARY KEY (stack, depth)
 );
 )sql",
 };

@@ -56,7 +56,7 @@ class EditorTest : public ::testing::Test {
     auto& db = project_->db();
     const auto r = replay(readJournal(db), loadReplaySources(db));
     ASSERT_FALSE(r.problem) << r.problem->seq << ": " << r.problem->what;
-    EXPECT_TRUE(r.state == readState(db));
+    EXPECT_TRUE(sameMaterialised(r.state, readState(db)));
   }
   // do; check; undo; check same as before; redo; check
   template <typename Do, typename Check>

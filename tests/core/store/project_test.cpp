@@ -117,7 +117,7 @@ TEST_F(ProjectTest, AFileFromBeforeTheJournalGetsItsRunsJournaled) {
     Database raw(path, Database::Access::ReadWrite);
     raw.exec(
         "DROP TABLE journal; DROP TABLE current_events; DROP TABLE outcome_overrides; "
-        "DROP TABLE signoffs; DROP TABLE carry_over_review; DROP TABLE edit_history; "
+        "DROP TABLE signoffs; DROP TABLE carry_over_review; "
         "DELETE FROM meta WHERE key = 'journal_head'; PRAGMA user_version = 1; "
         "INSERT INTO engine_runs(id, started_utc, engine_version, parameters_json, input_digest) "
         "VALUES (1, '2026-01-01T00:00:00.000Z', 'old', '{}', ''); "
