@@ -6,6 +6,7 @@
 // succeeded; an existing project gets all positions in one transaction. On
 // failure nothing is left behind either way.
 #include <fmt/format.h>
+#include <opencv2/core/utility.hpp>
 #include <unistd.h>
 
 #include <cmath>
@@ -93,6 +94,9 @@ std::string describe(const pipeline::PositionAnalysis& a) {
 }
 
 int runAnalyze(const AnalyzeArgs& args) {
+  // The pipeline runs its own threads (decoding, digests beside
+  // registration); OpenCV's worker pool on top only makes them queue.
+  cv::setNumThreads(1);
   std::vector<Position> positions = openInputs(args);
   std::optional<std::vector<traps::SuppliedTrap>> supplied;
   if (!args.traps.empty()) supplied = traps::readTrapsCsv(args.traps);

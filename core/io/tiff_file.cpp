@@ -76,7 +76,10 @@ TiffFile::TiffFile(const std::filesystem::path& path) : path_(path), h_(std::mak
   TIFFOpenOptions* opts = TIFFOpenOptionsAlloc();
   TIFFOpenOptionsSetErrorHandlerExtR(opts, captureError, &h_->lastError);
   TIFFOpenOptionsSetWarningHandlerExtR(opts, ignoreWarning, nullptr);
-  h_->tif = TIFFOpenExt(path.c_str(), "r", opts);
+  // "m": no memory mapping. Mapped pages of a large stack would count as this
+  // process's memory and grow with every frame read; plain reads keep the
+  // footprint at a frame or two whatever the length of the movie.
+  h_->tif = TIFFOpenExt(path.c_str(), "rm", opts);
   TIFFOpenOptionsFree(opts);
   if (!h_->tif) fail(std::nullopt, fmt::format("not a readable TIFF file ({})", takeMessage()));
   TIFF* tif = h_->tif;

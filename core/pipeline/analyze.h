@@ -11,7 +11,9 @@
 //            stages' results in one transaction
 // Memory is bounded by a few frames plus the projection's sample, however
 // long the movie. Progress is reported per stage; a CancelToken is honoured
-// between frames (Cancelled is thrown and nothing is written).
+// between frames (Cancelled is thrown and nothing is written). The pipeline
+// runs its own threads; callers on small machines do well to switch OpenCV's
+// worker pool off (cv::setNumThreads(1)), as budledger-cli analyze does.
 #include <filesystem>
 #include <optional>
 #include <span>
