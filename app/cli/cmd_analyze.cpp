@@ -6,8 +6,8 @@
 // succeeded; an existing project gets all positions in one transaction. On
 // failure nothing is left behind either way.
 #include <fmt/format.h>
-#include <opencv2/core/utility.hpp>
 #include <unistd.h>
+#include <opencv2/core/utility.hpp>
 
 #include <cmath>
 #include <filesystem>
@@ -62,9 +62,10 @@ std::vector<Position> openInputs(const AnalyzeArgs& args) {
   }
   for (const auto& p : out)
     if (!names.insert(p.name).second)
-      throw InputError(fmt::format("two inputs are both position '{}' (positions are named after "
-                                   "their files)",
-                                   p.name));
+      throw InputError(
+          fmt::format("two inputs are both position '{}' (positions are named after "
+                      "their files)",
+                      p.name));
   return out;
 }
 
@@ -129,8 +130,9 @@ int runAnalyze(const AnalyzeArgs& args) {
     TerminalProgress bar;
     for (size_t i = 0; i < positions.size(); ++i) {
       auto& p = positions[i];
-      const std::string label =
-          positions.size() > 1 ? fmt::format("[{}/{}] {}", i + 1, positions.size(), p.name) : p.name;
+      const std::string label = positions.size() > 1
+                                    ? fmt::format("[{}/{}] {}", i + 1, positions.size(), p.name)
+                                    : p.name;
       Progress sink = bar.sink();
       auto report = sink.report;
       sink.report = [report, label](std::string_view stage, double f) {
@@ -149,8 +151,8 @@ int runAnalyze(const AnalyzeArgs& args) {
     // The project's connection is closed (WAL folded back); now publish it.
     if (std::filesystem::exists(target)) {
       removeProjectFiles(building);
-      throw InputError(fmt::format("project '{}' appeared while analysing; not overwritten",
-                                   target.string()));
+      throw InputError(
+          fmt::format("project '{}' appeared while analysing; not overwritten", target.string()));
     }
     std::filesystem::rename(building, target);
     removeProjectFiles(building);

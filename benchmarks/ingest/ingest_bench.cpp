@@ -128,12 +128,15 @@ void registrationFps() {
   const double c0 = cpuSeconds();
   const auto t0 = Clock::now();
   for (int i = 0; i < n; ++i) {
-    const auto m = registrar.measure(frames[static_cast<size_t>(i % 8)], shifts[static_cast<size_t>(i % 8)]);
+    const auto m =
+        registrar.measure(frames[static_cast<size_t>(i % 8)], shifts[static_cast<size_t>(i % 8)]);
     worst = std::max(worst, cv::norm(m.shift - shifts[static_cast<size_t>(i % 8)]));
   }
   const double wall = seconds(t0), cpu = cpuSeconds() - c0;
-  std::printf("| registration, 2048x2048 16-bit, one core | %.0f frames/s (CPU %.2f ms/frame, wall %.2f ms/frame) | max error %.3f px |\n",
-              n / cpu, 1e3 * cpu / n, 1e3 * wall / n, worst);
+  std::printf(
+      "| registration, 2048x2048 16-bit, one core | %.0f frames/s (CPU %.2f ms/frame, wall %.2f "
+      "ms/frame) | max error %.3f px |\n",
+      n / cpu, 1e3 * cpu / n, 1e3 * wall / n, worst);
   cv::setNumThreads(-1);
 }
 
@@ -160,7 +163,8 @@ int child(const char* stack) {
 
 int main(int argc, char** argv) {
   if (argc == 3 && std::string(argv[1]) == "--child") return child(argv[2]);
-  const fs::path work = argc > 1 ? fs::path(argv[1]) : fs::temp_directory_path() / "budledger_bench_ingest";
+  const fs::path work =
+      argc > 1 ? fs::path(argv[1]) : fs::temp_directory_path() / "budledger_bench_ingest";
   fs::remove_all(work);
   fs::create_directories(work);
   std::printf("machine: %u hardware threads\n\n| what | figure | note |\n|---|---|---|\n",
@@ -174,17 +178,21 @@ int main(int argc, char** argv) {
   const double decode = decodeMBps(stack, 3, false);
   const double streamed = decodeMBps(stack, 3, true);
   std::printf("| raw sequential read() from page cache | %.0f MB/s | %.0f MB file |\n", raw, mb);
-  std::printf("| ingest: decode every frame, one thread | %.0f MB/s | %.2fx raw |\n", decode, decode / raw);
-  std::printf("| ingest: FrameStream (read-ahead thread) | %.0f MB/s | %.2fx raw |\n", streamed, streamed / raw);
+  std::printf("| ingest: decode every frame, one thread | %.0f MB/s | %.2fx raw |\n", decode,
+              decode / raw);
+  std::printf("| ingest: FrameStream (read-ahead thread) | %.0f MB/s | %.2fx raw |\n", streamed,
+              streamed / raw);
   for (const char* codec : {"lzw", "zip"}) {
     const fs::path out = work / (std::string(codec) + ".tif");
-    const std::string cmd = "tiffcp -c " + std::string(codec) + " " + stack.string() + " " + out.string();
+    const std::string cmd =
+        "tiffcp -c " + std::string(codec) + " " + stack.string() + " " + out.string();
     if (std::system(cmd.c_str()) != 0) continue;
     rawReadMBps(out, 1);
     const double d = decodeMBps(out, 2, false);
-    std::printf("| ingest: decode %s (tiffcp -c %s), one thread | %.0f MB/s of pixels | %.0f MB file |\n",
-                codec, codec, d * mb / (static_cast<double>(fs::file_size(out)) / 1e6),
-                static_cast<double>(fs::file_size(out)) / 1e6);
+    std::printf(
+        "| ingest: decode %s (tiffcp -c %s), one thread | %.0f MB/s of pixels | %.0f MB file |\n",
+        codec, codec, d * mb / (static_cast<double>(fs::file_size(out)) / 1e6),
+        static_cast<double>(fs::file_size(out)) / 1e6);
   }
   {
     auto source = io::openStack(stack);
@@ -205,8 +213,11 @@ int main(int argc, char** argv) {
       pipeline::analyzeFrames(*source, noDigest, Progress{});
       bestNoDigest = std::min(bestNoDigest, seconds(t1));
     }
-    std::printf("| whole ingest of 240 frames %dx%d, %zu traps (survey, registration, traps, SHA-256) | %.2f s wall | CPU: %.2f s main thread, %.2f s all threads; %.2f s wall without the digest |\n",
-                a.info.width, a.info.height, a.layout.traps.size(), best, mainCpu, allCpu, bestNoDigest);
+    std::printf(
+        "| whole ingest of 240 frames %dx%d, %zu traps (survey, registration, traps, SHA-256) | "
+        "%.2f s wall | CPU: %.2f s main thread, %.2f s all threads; %.2f s wall without the digest "
+        "|\n",
+        a.info.width, a.info.height, a.layout.traps.size(), best, mainCpu, allCpu, bestNoDigest);
   }
   cv::setNumThreads(-1);
   if (std::getenv("BENCH_SKIP_REST")) return 0;
@@ -215,8 +226,8 @@ int main(int argc, char** argv) {
   const fs::path s100 = simulate(work / "p100", 100);
   const fs::path s400 = simulate(work / "p400", 400);
   const long kb100 = childPeakKb(argv[0], s100), kb400 = childPeakKb(argv[0], s400);
-  std::printf("| peak memory, whole ingest, 100 frames | %.1f MB | stack %.0f MB |\n", kb100 / 1024.0,
-              static_cast<double>(fs::file_size(s100)) / 1e6);
+  std::printf("| peak memory, whole ingest, 100 frames | %.1f MB | stack %.0f MB |\n",
+              kb100 / 1024.0, static_cast<double>(fs::file_size(s100)) / 1e6);
   std::printf("| peak memory, whole ingest, 400 frames | %.1f MB | stack %.0f MB; ratio %.2f |\n",
               kb400 / 1024.0, static_cast<double>(fs::file_size(s400)) / 1e6,
               static_cast<double>(kb400) / static_cast<double>(kb100));

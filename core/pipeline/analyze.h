@@ -48,12 +48,12 @@ struct AnalyzeOptions {
   registration::TrackOptions tracking;
   traps::LatticeOptions lattice;
   traps::TrapFinderOptions finder;
-  int surveyFrames = 4;        // frames the lattice is first estimated from
-  int referenceCandidates = 4; // the sharpest of the first few frames is the reference
-  int projectionFrames = 15;   // frames in the temporal median (fewer for very large frames)
+  int surveyFrames = 4;         // frames the lattice is first estimated from
+  int referenceCandidates = 4;  // the sharpest of the first few frames is the reference
+  int projectionFrames = 15;    // frames in the temporal median (fewer for very large frames)
   std::size_t projectionBudgetBytes = std::size_t{96} << 20;
-  int readAhead = 3;           // decoded frames buffered ahead of registration
-  bool digests = true;         // SHA-256 of every input file
+  int readAhead = 3;    // decoded frames buffered ahead of registration
+  bool digests = true;  // SHA-256 of every input file
 };
 
 struct AnalyzeTimings {
