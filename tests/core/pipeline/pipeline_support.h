@@ -16,8 +16,9 @@ class Scratch : public ::testing::Test {
  protected:
   void SetUp() override {
     const auto* info = ::testing::UnitTest::GetInstance()->current_test_info();
-    dir_ = std::filesystem::temp_directory_path() /
-           fmt::format("budledger_pipe_{}_{}_{}", info->test_suite_name(), info->name(), ::getpid());
+    dir_ =
+        std::filesystem::temp_directory_path() /
+        fmt::format("budledger_pipe_{}_{}_{}", info->test_suite_name(), info->name(), ::getpid());
     std::filesystem::remove_all(dir_);
     std::filesystem::create_directories(dir_);
   }
@@ -41,8 +42,8 @@ inline SyntheticStack writeSyntheticStack(const std::filesystem::path& path, int
   const budledger::testing::SyntheticScene scene(s.options);
   std::vector<cv::Mat> images;
   for (int t = 0; t < frames; ++t)
-    images.push_back(scene.render({s.drift[static_cast<size_t>(t)], 1.0 + 0.05 * (t % 3),
-                                   t == 3 ? 3.0 : 0.0, t}));
+    images.push_back(scene.render(
+        {s.drift[static_cast<size_t>(t)], 1.0 + 0.05 * (t % 3), t == 3 ? 3.0 : 0.0, t}));
   budledger::testing::TiffWriteOptions w;
   w.description = budledger::testing::omeXml(size.width, size.height, frames, 16, 10.0, 0.25);
   budledger::testing::writeTiffStack(path, images, w);

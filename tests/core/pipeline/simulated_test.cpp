@@ -65,8 +65,8 @@ TEST_P(Simulated, TrapsFoundAndTrackedAgainstTruth) {
     EXPECT_EQ(score.recall, 1.0) << c.name;
     EXPECT_EQ(score.precision, 1.0) << c.name;
     EXPECT_TRUE(score.idsRowMajor) << c.name;
-    EXPECT_LT(score.maxTrackError, 1.0) << c.name << " (offset to the simulator's seat "
-                                        << score.offset << " px removed)";
+    EXPECT_LT(score.maxTrackError, 1.0)
+        << c.name << " (offset to the simulator's seat " << score.offset << " px removed)";
     // Ids, rows and columns as the simulator numbers its traps.
     for (const auto& t : a.layout.traps) {
       const testing::TruthTrap* same = nullptr;
@@ -98,8 +98,9 @@ TEST_P(Simulated, TrapsFoundAndTrackedAgainstTruth) {
   EXPECT_EQ(positions, 1);
 }
 
-INSTANTIATE_TEST_SUITE_P(Scenarios, Simulated, ::testing::ValuesIn(kCases),
-                         [](const auto& info) { return std::string(1, static_cast<char>('A' + info.index)); });
+INSTANTIATE_TEST_SUITE_P(Scenarios, Simulated, ::testing::ValuesIn(kCases), [](const auto& info) {
+  return std::string(1, static_cast<char>('A' + info.index));
+});
 
 }  // namespace
 }  // namespace budledger::pipeline

@@ -115,9 +115,9 @@ TEST(Traps, EveryTrapFoundWithStableCentresForEveryGeometry) {
       EXPECT_EQ(t.id, static_cast<int>(i));
       if (i == 0) continue;
       const Trap& p = found.layout.traps[i - 1];
-      const bool next = t.row > p.row || (t.row == p.row && t.col == p.col + 1 && t.centre.x > p.centre.x);
-    EXPECT_TRUE(next)
-          << g.name << " trap " << i;
+      const bool next =
+          t.row > p.row || (t.row == p.row && t.col == p.col + 1 && t.centre.x > p.centre.x);
+      EXPECT_TRUE(next) << g.name << " trap " << i;
     }
   }
 }
@@ -183,8 +183,8 @@ class SuppliedLayout : public ::testing::Test {
  protected:
   std::filesystem::path write(const std::string& text) {
     path_ = std::filesystem::temp_directory_path() /
-            ("budledger_traps_" + std::to_string(::testing::UnitTest::GetInstance()->random_seed()) +
-             ".csv");
+            ("budledger_traps_" +
+             std::to_string(::testing::UnitTest::GetInstance()->random_seed()) + ".csv");
     std::ofstream(path_) << text;
     return path_;
   }
@@ -239,7 +239,8 @@ TEST_F(SuppliedLayout, BadFilesNameTheLine) {
 TEST(Crops, FollowTheDriftWholePixelAndSubPixel) {
   cv::Mat frame(100, 120, CV_16U);
   for (int y = 0; y < frame.rows; ++y)
-    for (int x = 0; x < frame.cols; ++x) frame.at<std::uint16_t>(y, x) = static_cast<std::uint16_t>(x + 1000 * y);
+    for (int x = 0; x < frame.cols; ++x)
+      frame.at<std::uint16_t>(y, x) = static_cast<std::uint16_t>(x + 1000 * y);
   const cv::Rect box(-5, -4, 11, 9);
   cv::Mat crop;
   cropAt(frame, {50, 40}, {7, -3}, box, CropSampling::Nearest, crop);
@@ -296,7 +297,8 @@ TEST(StructureMapTest, HighOnPostsLowBetweenThem) {
   // The left wall of the default cup runs from (-11,-10) to (-7,7) around the centre.
   double onWall = 0;
   for (int dy = -8; dy <= 5; ++dy)
-    onWall = std::max(onWall, static_cast<double>(w.at<float>(int(c.y + dy), int(c.x - 9 - dy / 4.0 - 3))));
+    onWall = std::max(onWall,
+                      static_cast<double>(w.at<float>(int(c.y + dy), int(c.x - 9 - dy / 4.0 - 3))));
   EXPECT_GT(onWall, 0.5);
   EXPECT_LT(w.at<float>(int(c.y + 36), int(c.x + 32)), 0.1);  // open medium between traps
 }
