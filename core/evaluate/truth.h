@@ -1,0 +1,57 @@
+#pragma once
+// Truth: what the simulator knows about a generated experiment, read from its
+// output folder (docs/simulator.md): positions.csv, and per position
+// truth/<position>/{traps,events,lifespans,drift}.csv. This is the only code
+// that reads that layout; a malformed file raises InputError naming the file
+// and row.
+#include <string>
+#include <vector>
+
+#include "core/base/events.h"
+
+namespace budledger::evaluate {
+
+struct TruthTrap {
+  int trap = 0;
+  int row = 0;
+  int col = 0;
+  double x = 0;  // cup centre, frame-0 pixels
+  double y = 0;
+};
+
+struct TruthEvent {
+  int trap = 0;
+  int mother = 0;
+  int frame = 0;  // first frame at which the event is visible
+  EventKind kind = EventKind::Bud;
+};
+
+struct TruthTenure {
+  int trap = 0;
+  int mother = 0;
+  int firstFrame = 0;
+  int lastFrame = 0;
+  int divisions = 0;
+  bool died = false;  // else censored
+};
+
+struct TruthPosition {
+  std::string name;
+  std::string group;
+  std::string file;
+  int frames = 0;
+  double intervalMin = 0;
+  double pixelUm = 0;
+  std::vector<TruthTrap> traps;
+  std::vector<TruthEvent> events;
+  std::vector<TruthTenure> tenures;
+};
+
+struct Truth {
+  std::string folder;
+  std::vector<TruthPosition> positions;
+};
+
+Truth readTruth(const std::string& folder);
+
+}  // namespace budledger::evaluate

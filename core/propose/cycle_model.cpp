@@ -1,0 +1,119 @@
+#include "core/propose/cycle_model.h"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+#include <stdexcept>
+
+namespace budledger::propose {
+namespace {
+
+// Probability that an event with the given per-minute rate happens within one frame.
+double perFrame(double perMin, double intervalMin) {
+  return 1.0 - std::exp(-std::max(0.0, perMin) * intervalMin);
+}
+
+// Probability of leaving a geometric sojourn with the given mean (in minutes) in one frame.
+double leaveProbability(double meanMin, double intervalMin) {
+  const double meanFrames = std::max(1.0, meanMin / intervalMin);
+  return std::clamp(1.0 / meanFrames, 1e-4, 1.0 - 1e-4);
+}
+
+}  // namespace
+
+CycleModel::CycleModel(const CycleParams& p)
+    : params_(p),
+      m_(std::max(2, static_cast<int>(std::floor(p.minBuddedMin / p.intervalMin + 1e-9)))),
+      hmm_(m_ + 3) {
+  if (!(p.intervalMin > 0)) throw std::invalid_argument("frame interval must be positive");
+  const double dt = p.intervalMin;
+  const double arrive = perFrame(p.arrivalPerMin, dt);
+  const double wash = perFrame(p.washoutPerMin, dt);
+  const double die = perFrame(p.deathPerMin, dt);
+  const double gone = perFrame(p.deadGonePerMin, dt);
+  const double bud = leaveProbability(p.meanUnbuddedMin, dt);
+  const double sep = leaveProbability(p.meanBuddedExtraMin + dt, dt);
+  const double rebud = std::clamp(p.immediateRebud, 0.0, 1.0);
+  const double buddedArrival = std::clamp(p.arrivalBudded, 0.0, 1.0);
+
+  using T = Transition;
+  auto arc = [&](int from, int to, double prob, T tag) {
+    hmm_.addArc(from, to, prob, static_cast<int>(tag));
+  };
+  // Empty: stay, or a mother arrives unbudded or with a bud of any age.
+  arc(0, 0, 1 - arrive, T::Stay);
+  arc(0, 1, arrive * (1 - buddedArrival), T::Arrival);
+  for (int k = 1; k <= m_; ++k) arc(0, buddedState(k), arrive * buddedArrival / m_, T::Arrival);
+  // Unbudded live mother.
+  const double leaveLive = wash + die;
+  arc(1, 1, (1 - leaveLive) * (1 - bud), T::Stay);
+  arc(1, buddedState(1), (1 - leaveLive) * bud, T::Bud);
+  arc(1, deadState(), die, T::Death);
+  arc(1, 0, wash, T::Washout);
+  // Budded chain: forced advance up to age m, then stay or separate.
+  for (int k = 1; k <= m_; ++k) {
+    const int s = buddedState(k);
+    if (k < m_) {
+      arc(s, buddedState(k + 1), 1 - leaveLive, T::Advance);
+    } else {
+      arc(s, s, (1 - leaveLive) * (1 - sep), T::Stay);
+      arc(s, 1, (1 - leaveLive) * sep * (1 - rebud), T::Separation);
+      arc(s, buddedState(1), (1 - leaveLive) * sep * rebud, T::SeparationBud);
+    }
+    arc(s, deadState(), die, T::Death);
+    arc(s, 0, wash, T::Washout);
+  }
+  // Dead mother: stays until flushed out.
+  arc(deadState(), deadState(), 1 - gone, T::Stay);
+  arc(deadState(), 0, gone, T::DeadGone);
+
+  const double e0 = std::clamp(p.initialEmpty, 0.0, 1.0);
+  const double d0 = std::clamp(p.initialDead, 0.0, 1.0 - e0);
+  const double u0 = std::clamp(p.initialUnbudded, 0.0, 1.0 - e0 - d0);
+  hmm_.setInitial(0, e0);
+  hmm_.setInitial(1, u0);
+  hmm_.setInitial(deadState(), d0);
+  const double b0 = (1.0 - e0 - d0 - u0) / m_;
+  for (int k = 1; k <= m_; ++k) hmm_.setInitial(buddedState(k), b0);
+  if (const std::string problem = hmm_.validate(); !problem.empty())
+    throw std::logic_error("cycle model: " + problem);
+}
+
+int CycleModel::budAge(int state) const { return state >= 2 && state <= m_ + 1 ? state - 1 : 0; }
+
+StateGroup CycleModel::group(int state) const {
+  if (state == 0) return StateGroup::Empty;
+  if (state == 1) return StateGroup::Unbudded;
+  if (state == deadState()) return StateGroup::Dead;
+  const int age = budAge(state);
+  if (age == 1) return StateGroup::BudNew;
+  if (age == 2) return StateGroup::BudYoung;
+  return StateGroup::BudOld;
+}
+
+std::string toString(Transition t) {
+  switch (t) {
+    case Transition::Stay:
+      return "stay";
+    case Transition::Advance:
+      return "advance";
+    case Transition::Arrival:
+      return "arrival";
+    case Transition::Bud:
+      return "bud";
+    case Transition::Separation:
+      return "separation";
+    case Transition::SeparationBud:
+      return "separation+bud";
+    case Transition::Death:
+      return "death";
+    case Transition::Washout:
+      return "washout";
+    case Transition::DeadGone:
+      return "dead-gone";
+  }
+  return fmt::format("transition{}", static_cast<int>(t));
+}
+
+}  // namespace budledger::propose
