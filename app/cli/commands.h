@@ -12,5 +12,6 @@ namespace budledger::cli {
 using Action = std::function<int()>;
 
 void addSummaryCommand(CLI::App& root, Action& action);
+void addEvaluateCommand(CLI::App& root, Action& action);
 
 }  // namespace budledger::cli
