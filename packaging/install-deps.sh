@@ -11,8 +11,8 @@ packages=(
   qt6-base-dev qt6-svg-dev libgl-dev libopencv-dev libsqlite3-dev libtiff-dev
   libfmt-dev libgtest-dev libgmock-dev libcli11-dev nlohmann-json3-dev libssl-dev
   libbenchmark-dev
-  # test tools: libtiff's own tools, the live R reference, a display for screenshots
-  libtiff-tools r-base-core r-cran-survival xvfb xauth
+  # test tools: libtiff's own tools, the live R reference, a display and a font for screenshots
+  libtiff-tools r-base-core r-cran-survival xvfb xauth fonts-dejavu-core
 )
 
 missing=()

@@ -12,6 +12,7 @@ namespace budledger::cli {
 using Action = std::function<int()>;
 
 void addSummaryCommand(CLI::App& root, Action& action);
+void addSimulateCommand(CLI::App& root, Action& action);
 void addEvaluateCommand(CLI::App& root, Action& action);
 
 }  // namespace budledger::cli

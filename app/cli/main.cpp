@@ -21,6 +21,7 @@ int main(int argc, char** argv) {
 
   Action action;
   addSummaryCommand(app, action);
+  addSimulateCommand(app, action);
   addEvaluateCommand(app, action);
 
   try {
