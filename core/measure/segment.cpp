@@ -31,32 +31,25 @@ void fillHoles(cv::Mat& mask) {
 }
 
 // An outline with a gap of a few pixels (a rim cancelled by a neighbour's halo) fills
-// to a thin arc, not a cell. Such low-solidity objects are closed with a wider disk and
-// filled again; solid objects are left alone so that neighbouring cells stay apart.
+// to a thin arc, not a cell. Objects that cover little of their bounding box are
+// closed with a wider disk inside that box and filled again; solid objects are left
+// alone so that neighbouring cells stay apart.
 void bridgeBrokenOutlines(cv::Mat& mask) {
-  std::vector<std::vector<cv::Point>> contours;
-  cv::findContours(mask.clone(), contours, cv::RETR_EXTERNAL, cv::CHAIN_APPROX_SIMPLE);
-  cv::Mat arcs(mask.size(), CV_8U, cv::Scalar(0));
-  bool any = false;
-  for (std::size_t i = 0; i < contours.size(); ++i) {
-    std::vector<cv::Point> hull;
-    cv::convexHull(contours[i], hull);
-    const double hullArea = cv::contourArea(hull);
-    if (hullArea < 20) continue;
-    cv::Mat one(mask.size(), CV_8U, cv::Scalar(0));
-    cv::drawContours(one, contours, static_cast<int>(i), 255, cv::FILLED);
-    one &= mask;
-    if (cv::countNonZero(one) < 0.6 * hullArea) {
-      arcs |= one;
-      any = true;
-    }
+  cv::Mat labels, stats, centroids;
+  const int n = cv::connectedComponentsWithStats(mask, labels, stats, centroids, 8, CV_32S);
+  for (int i = 1; i < n; ++i) {
+    const int area = stats.at<int>(i, cv::CC_STAT_AREA);
+    const cv::Rect box(stats.at<int>(i, cv::CC_STAT_LEFT), stats.at<int>(i, cv::CC_STAT_TOP),
+                       stats.at<int>(i, cv::CC_STAT_WIDTH), stats.at<int>(i, cv::CC_STAT_HEIGHT));
+    if (box.area() < 30 || area >= 0.45 * box.area()) continue;
+    const cv::Rect grown = (box + cv::Size(8, 8) - cv::Point(4, 4)) & cv::Rect(0, 0, mask.cols, mask.rows);
+    cv::Mat arc = labels(grown) == i;
+    cv::morphologyEx(arc, arc, cv::MORPH_CLOSE,
+                     cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7}));
+    fillHoles(arc);
+    cv::Mat roi = mask(grown);
+    roi |= arc;
   }
-  if (!any) return;
-  cv::Mat bridged;
-  cv::morphologyEx(arcs, bridged, cv::MORPH_CLOSE,
-                   cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7}));
-  fillHoles(bridged);
-  mask |= bridged;
 }
 
 // Pixels of the outline sign: strong ones (> threshold SDs) and the weaker ones
@@ -66,6 +59,7 @@ void bridgeBrokenOutlines(cv::Mat& mask) {
 cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double threshold) {
   cv::Mat signedDiff = polarity == 0 ? cv::abs(diff) : diff * static_cast<double>(polarity);
   const cv::Mat strong = signedDiff > threshold * sd;
+  if (cv::countNonZero(strong) == 0) return cv::Mat(diff.size(), CV_8U, cv::Scalar(0));
   cv::Mat mask = signedDiff > 0.5 * threshold * sd;
   cv::Mat labels;
   const int n = cv::connectedComponents(mask, labels, 8, CV_32S);
@@ -168,35 +162,79 @@ float ridgeBetween(const cv::Mat& dist, cv::Point a, cv::Point b) {
 
 // Marker-controlled watershed on the relief -dist (Beucher & Meyer 1993): seeds grow
 // in order of decreasing distance to the background, so two cells meet at their neck.
-// (cv::watershed floods on colour differences, not on a given relief.)
-void floodFromSeeds(const cv::Mat& dist, const cv::Mat& mask, cv::Mat& labels) {
-  struct Item {
-    float height;
-    int index;
-    int label;
-    bool operator<(const Item& o) const { return height < o.height; }  // max-heap on distance
-  };
+// (cv::watershed floods on colour differences, not on a given relief.) A bucket queue
+// over the distance quantised to quarter pixels keeps it linear in the pixels flooded.
+// Components holding a single seed are labelled whole, without flooding.
+void floodFromSeeds(const cv::Mat& dist, const cv::Mat& mask, const cv::Mat& components,
+                    int componentCount, cv::Mat& labels) {
   const int W = labels.cols, H = labels.rows;
-  std::priority_queue<Item> queue;
-  auto pushNeighbours = [&](int x, int y, int label) {
+  std::vector<int> seedLabel(static_cast<std::size_t>(componentCount), 0);
+  std::vector<bool> multi(static_cast<std::size_t>(componentCount), false);
+  for (int y = 0; y < H; ++y)
+    for (int x = 0; x < W; ++x)
+      if (const int l = labels.at<int>(y, x)) {
+        const auto c = static_cast<std::size_t>(components.at<int>(y, x));
+        if (seedLabel[c] && seedLabel[c] != l) multi[c] = true;
+        seedLabel[c] = l;
+      }
+  bool anyMulti = false;
+  for (int y = 0; y < H; ++y)
+    for (int x = 0; x < W; ++x) {
+      const auto c = static_cast<std::size_t>(components.at<int>(y, x));
+      if (!c) continue;
+      if (multi[c])
+        anyMulti = true;
+      else
+        labels.at<int>(y, x) = seedLabel[c];
+    }
+  if (!anyMulti) return;
+  constexpr float kQuantum = 4.0f;
+  double maxDist = 0;
+  cv::minMaxLoc(dist, nullptr, &maxDist);
+  const int levels = static_cast<int>(maxDist * kQuantum) + 2;
+  std::vector<std::vector<int>> buckets(static_cast<std::size_t>(levels));
+  auto bucketOf = [&](int index) {
+    return levels - 1 - static_cast<int>(dist.at<float>(index / W, index % W) * kQuantum);
+  };
+  auto pushNeighbours = [&](int x, int y) {
     for (int dy = -1; dy <= 1; ++dy)
       for (int dx = -1; dx <= 1; ++dx) {
         const int nx = x + dx, ny = y + dy;
         if ((dx || dy) && nx >= 0 && ny >= 0 && nx < W && ny < H && mask.at<uchar>(ny, nx) &&
-            !labels.at<int>(ny, nx))
-          queue.push({dist.at<float>(ny, nx), ny * W + nx, label});
+            !labels.at<int>(ny, nx) &&
+            multi[static_cast<std::size_t>(components.at<int>(ny, nx))]) {
+          const int idx = ny * W + nx;
+          buckets[static_cast<std::size_t>(std::max(0, bucketOf(idx)))].push_back(idx);
+        }
       }
   };
   for (int y = 0; y < H; ++y)
     for (int x = 0; x < W; ++x)
-      if (const int l = labels.at<int>(y, x)) pushNeighbours(x, y, l);
-  while (!queue.empty()) {
-    const Item it = queue.top();
-    queue.pop();
-    const int x = it.index % W, y = it.index / W;
-    if (labels.at<int>(y, x)) continue;
-    labels.at<int>(y, x) = it.label;
-    pushNeighbours(x, y, it.label);
+      if (labels.at<int>(y, x) && multi[static_cast<std::size_t>(components.at<int>(y, x))])
+        pushNeighbours(x, y);
+  for (int b = 0; b < levels; ++b) {
+    auto& bucket = buckets[static_cast<std::size_t>(b)];
+    for (std::size_t i = 0; i < bucket.size(); ++i) {
+      const int idx = bucket[i];
+      const int x = idx % W, y = idx / W;
+      if (labels.at<int>(y, x)) continue;
+      // Take the label of the labelled neighbour with the greatest distance (uphill).
+      int label = 0;
+      float best = -1;
+      for (int dy = -1; dy <= 1; ++dy)
+        for (int dx = -1; dx <= 1; ++dx) {
+          const int nx = x + dx, ny = y + dy;
+          if (nx < 0 || ny < 0 || nx >= W || ny >= H) continue;
+          const int l = labels.at<int>(ny, nx);
+          if (l && dist.at<float>(ny, nx) > best) {
+            best = dist.at<float>(ny, nx);
+            label = l;
+          }
+        }
+      if (!label) continue;
+      labels.at<int>(y, x) = label;
+      pushNeighbours(x, y);  // neighbours at lower levels land in later buckets
+    }
   }
 }
 
@@ -204,15 +242,30 @@ void floodFromSeeds(const cv::Mat& dist, const cv::Mat& mask, cv::Mat& labels) {
 int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels) {
   cv::Mat dist;
   cv::distanceTransform(mask, dist, cv::DIST_L2, 3);
+  // Peaks: maxima of the distance map in a 5x5 window; a plateau of equal maxima is
+  // one peak (its first pixel).
   cv::Mat dilated;
-  cv::dilate(dist, dilated, cv::getStructuringElement(cv::MORPH_RECT, {3, 3}));
+  cv::dilate(dist, dilated, cv::getStructuringElement(cv::MORPH_RECT, {5, 5}));
   const float minPeak = 1.5f;
-  std::vector<Peak> peaks;
+  cv::Mat peakMask(dist.size(), CV_8U, cv::Scalar(0));
   for (int y = 0; y < dist.rows; ++y) {
     const float* d = dist.ptr<float>(y);
     const float* m = dilated.ptr<float>(y);
+    uchar* pm = peakMask.ptr<uchar>(y);
     for (int x = 0; x < dist.cols; ++x)
-      if (d[x] >= minPeak && d[x] >= m[x]) peaks.push_back({{x, y}, d[x]});
+      if (d[x] >= minPeak && d[x] >= m[x]) pm[x] = 255;
+  }
+  cv::Mat plateau;
+  const int nPlateaus = cv::connectedComponents(peakMask, plateau, 8, CV_32S);
+  std::vector<Peak> peaks;
+  std::vector<bool> taken(static_cast<std::size_t>(nPlateaus), false);
+  for (int y = 0; y < dist.rows; ++y) {
+    const int* p = plateau.ptr<int>(y);
+    for (int x = 0; x < dist.cols; ++x)
+      if (p[x] && !taken[static_cast<std::size_t>(p[x])]) {
+        taken[static_cast<std::size_t>(p[x])] = true;
+        peaks.push_back({{x, y}, dist.at<float>(y, x)});
+      }
   }
   // Highest first, so a plateau's pixels join the first of them.
   std::sort(peaks.begin(), peaks.end(),
@@ -255,7 +308,7 @@ int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels
         labels.at<int>(y, x) = ++n;
       }
     }
-  floodFromSeeds(dist, mask, labels);
+  floodFromSeeds(dist, mask, comp, nComp, labels);
   return n;
 }
 
@@ -397,14 +450,25 @@ CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double n
   CropReading out;
   const double sd = std::max(noiseSd, 1e-6);
   const cv::Mat diff = smoothedDifference(crop, background, params.smoothSigmaPx);
-  cv::Mat strength = cv::abs(diff) / sd;
   {
-    cv::Mat disk(crop.size(), CV_8U, cv::Scalar(0));
-    cv::circle(disk,
-               cv::Point(static_cast<int>(std::lround(geometry.cupX)),
-                         static_cast<int>(std::lround(geometry.cupY))),
-               std::max(1, static_cast<int>(std::lround(params.motherRadiusPx))), 255, -1);
-    out.cupStrength = cv::mean(strength, disk)[0];
+    // Segmentation-free presence: mean |difference| in the disk a mother would fill.
+    const double r = std::max(1.0, params.motherRadiusPx);
+    const int x0 = std::max(0, static_cast<int>(geometry.cupX - r)),
+              x1 = std::min(diff.cols - 1, static_cast<int>(geometry.cupX + r));
+    const int y0 = std::max(0, static_cast<int>(geometry.cupY - r)),
+              y1 = std::min(diff.rows - 1, static_cast<int>(geometry.cupY + r));
+    double sum = 0;
+    int count = 0;
+    for (int y = y0; y <= y1; ++y) {
+      const float* d = diff.ptr<float>(y);
+      for (int x = x0; x <= x1; ++x) {
+        const double dx = x - geometry.cupX, dy = y - geometry.cupY;
+        if (dx * dx + dy * dy > r * r) continue;
+        sum += std::abs(d[x]);
+        ++count;
+      }
+    }
+    out.cupStrength = count ? sum / count / sd : 0;
   }
   cv::Mat mask = outlineMask(diff, sd, params.polarity, params.threshold);
   out.foregroundPx = cv::countNonZero(mask);

@@ -25,7 +25,8 @@ double leaveProbability(double meanMin, double intervalMin) {
 CycleModel::CycleModel(const CycleParams& p)
     : params_(p),
       m_(std::max(2, static_cast<int>(std::floor(p.minBuddedMin / p.intervalMin + 1e-9)))),
-      hmm_(m_ + 3) {
+      k_(std::max(1, static_cast<int>(std::ceil(p.deathOnsetMin / p.intervalMin - 1e-9)))),
+      hmm_(m_ + 3 + k_) {
   if (!(p.intervalMin > 0)) throw std::invalid_argument("frame interval must be positive");
   const double dt = p.intervalMin;
   const double arrive = perFrame(p.arrivalPerMin, dt);
@@ -41,16 +42,18 @@ CycleModel::CycleModel(const CycleParams& p)
   auto arc = [&](int from, int to, double prob, T tag) {
     hmm_.addArc(from, to, prob, static_cast<int>(tag));
   };
-  // Empty: stay, or a mother arrives unbudded or with a bud of any age.
-  arc(0, 0, 1 - arrive, T::Stay);
-  arc(0, 1, arrive * (1 - buddedArrival), T::Arrival);
-  for (int k = 1; k <= m_; ++k) arc(0, buddedState(k), arrive * buddedArrival / m_, T::Arrival);
+  // Empty (and just vacated): stay, or a mother arrives unbudded or with a bud of any age.
+  for (int e : {0, vacatedState()}) {
+    arc(e, 0, 1 - arrive, e == 0 ? T::Stay : T::Advance);
+    arc(e, 1, arrive * (1 - buddedArrival), T::Arrival);
+    for (int k = 1; k <= m_; ++k) arc(e, buddedState(k), arrive * buddedArrival / m_, T::Arrival);
+  }
   // Unbudded live mother.
   const double leaveLive = wash + die;
   arc(1, 1, (1 - leaveLive) * (1 - bud), T::Stay);
   arc(1, buddedState(1), (1 - leaveLive) * bud, T::Bud);
   arc(1, deadState(), die, T::Death);
-  arc(1, 0, wash, T::Washout);
+  arc(1, vacatedState(), wash, T::Washout);
   // Budded chain: forced advance up to age m, then stay or separate.
   for (int k = 1; k <= m_; ++k) {
     const int s = buddedState(k);
@@ -62,18 +65,21 @@ CycleModel::CycleModel(const CycleParams& p)
       arc(s, buddedState(1), (1 - leaveLive) * sep * rebud, T::SeparationBud);
     }
     arc(s, deadState(), die, T::Death);
-    arc(s, 0, wash, T::Washout);
+    arc(s, vacatedState(), wash, T::Washout);
   }
-  // Dead mother: stays until flushed out.
-  arc(deadState(), deadState(), 1 - gone, T::Stay);
-  arc(deadState(), 0, gone, T::DeadGone);
+  // Dead mother: ages until the last dead state, stays until flushed out.
+  for (int k = 1; k <= k_; ++k) {
+    const int s = deadState(k);
+    arc(s, k < k_ ? deadState(k + 1) : s, 1 - gone, k < k_ ? T::Advance : T::Stay);
+    arc(s, vacatedState(), gone, T::DeadGone);
+  }
 
   const double e0 = std::clamp(p.initialEmpty, 0.0, 1.0);
   const double d0 = std::clamp(p.initialDead, 0.0, 1.0 - e0);
   const double u0 = std::clamp(p.initialUnbudded, 0.0, 1.0 - e0 - d0);
   hmm_.setInitial(0, e0);
   hmm_.setInitial(1, u0);
-  hmm_.setInitial(deadState(), d0);
+  hmm_.setInitial(deadState(k_), d0);  // a corpse at the start has been dead a while
   const double b0 = (1.0 - e0 - d0 - u0) / m_;
   for (int k = 1; k <= m_; ++k) hmm_.setInitial(buddedState(k), b0);
   if (const std::string problem = hmm_.validate(); !problem.empty())
@@ -82,10 +88,14 @@ CycleModel::CycleModel(const CycleParams& p)
 
 int CycleModel::budAge(int state) const { return state >= 2 && state <= m_ + 1 ? state - 1 : 0; }
 
+int CycleModel::deadAge(int state) const {
+  return state >= m_ + 2 && state <= m_ + 1 + k_ ? state - m_ - 1 : 0;
+}
+
 StateGroup CycleModel::group(int state) const {
-  if (state == 0) return StateGroup::Empty;
+  if (state == 0 || state == vacatedState()) return StateGroup::Empty;
   if (state == 1) return StateGroup::Unbudded;
-  if (state == deadState()) return StateGroup::Dead;
+  if (isDead(state)) return StateGroup::Dead;
   const int age = budAge(state);
   if (age == 1) return StateGroup::BudNew;
   if (age == 2) return StateGroup::BudYoung;

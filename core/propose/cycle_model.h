@@ -7,9 +7,18 @@
 // (a dead mother can only leave, never bud again). Arcs are tagged with the
 // event they stand for, so decoded paths read directly as events.
 //
-// Invariants: state 0 is Empty, 1 Unbudded, 2..m+1 Budded age 1..m, m+2 Dead;
-// arcs out of each state sum to one; all rates are per frame, derived from
-// per-minute rates and the frame interval, so the model scales with it.
+// A dead mother passes through `deadFrames()` states of increasing age before
+// the last one repeats, so that morphology that changes gradually after death
+// can be matched to how long ago death was (its onset is then placed well).
+//
+// A mother that leaves (washout, or a corpse flushed out) leaves the trap
+// "vacated" for at least one frame before another can arrive: a new tenure
+// needs an empty frame between, so a flicker of detection cannot start one.
+//
+// Invariants: state 0 is Empty, 1 Unbudded, 2..m+1 Budded age 1..m,
+// m+2..m+1+K Dead age 1..K, m+2+K Vacated; arcs out of each state sum to
+// one; all rates are per frame, derived from per-minute rates and the frame
+// interval, so the model scales with it.
 #include <string>
 
 #include "core/propose/sparse_hmm.h"
@@ -44,6 +53,7 @@ struct CycleParams {
   double washoutPerMin = 1.0 / 6000;   // a live mother is flushed out
   double deathPerMin = 1.0 / 3000;     // a live mother dies
   double deadGonePerMin = 1.0 / 3000;  // a dead mother is flushed out
+  double deathOnsetMin = 180;     // morphological signs of death develop over this time
   double arrivalBudded = 0.5;          // share of arriving mothers that carry a bud
   // Frame-0 state probabilities (the rest is spread over budded ages).
   double initialEmpty = 0.1;
@@ -58,13 +68,17 @@ class CycleModel {
   const CycleParams& params() const { return params_; }
   const SparseHmm& hmm() const { return hmm_; }
   int buddedFrames() const { return m_; }
-  int stateCount() const { return m_ + 3; }
+  int deadFrames() const { return k_; }
+  int stateCount() const { return m_ + 3 + k_; }
 
   static constexpr int emptyState() { return 0; }
   static constexpr int unbuddedState() { return 1; }
-  int buddedState(int age) const { return 1 + age; }  // age 1..m
-  int deadState() const { return m_ + 2; }
-  int budAge(int state) const;  // 1..m for budded states, else 0
+  int buddedState(int age) const { return 1 + age; }       // age 1..m
+  int deadState(int age = 1) const { return m_ + 1 + age; }  // age 1..K
+  int vacatedState() const { return m_ + 2 + k_; }
+  int budAge(int state) const;   // 1..m for budded states, else 0
+  int deadAge(int state) const;  // 1..K for dead states, else 0
+  bool isDead(int state) const { return deadAge(state) > 0; }
   StateGroup group(int state) const;
   bool isLive(int state) const { return state >= 1 && state <= m_ + 1; }
   Transition tag(int arc) const { return static_cast<Transition>(hmm_.arcs()[arc].tag); }
@@ -72,6 +86,7 @@ class CycleModel {
  private:
   CycleParams params_;
   int m_;
+  int k_;
   SparseHmm hmm_;
 };
 

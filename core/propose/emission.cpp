@@ -30,7 +30,7 @@ double clampProbability(double p) { return std::clamp(p, 1e-6, 1 - 1e-6); }
 
 }  // namespace
 
-EmissionParams EmissionParams::defaults(int m) {
+EmissionParams EmissionParams::defaults(int m, int k) {
   EmissionParams p;
   // Columns: empty, single, budded, crowded.
   p.occupancy[groupIndex(StateGroup::Empty)] = {0.94, 0.03, 0.01, 0.02};
@@ -43,11 +43,93 @@ EmissionParams EmissionParams::defaults(int m) {
   for (int k = 1; k <= m; ++k)
     p.budRatioMean[static_cast<std::size_t>(k - 1)] = 0.06 + 0.4 * (k - 1) / std::max(1, m - 1);
   p.deadLook = {0.05, 0.05, 0.05, 0.05, 0.05, 0.8};
+  // No assumption on which way death moves each feature: learned by EM.
+  p.morphDeadMean.assign(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0});
   return p;
 }
 
+std::array<double, kMorphCount> liveReference(const std::vector<TrapEvidence>& evidence,
+                                              const std::vector<std::vector<float>>& pLive) {
+  std::array<double, kMorphCount> ref{kMissing, kMissing, kMissing};
+  for (int j = 0; j < kMorphCount; ++j) {
+    std::vector<double> v;
+    for (std::size_t i = 0; i < evidence.size(); ++i)
+      for (std::size_t t = 0; t < evidence[i].size(); ++t) {
+        const double x = evidence[i][t].morph[static_cast<std::size_t>(j)];
+        if (evidence[i][t].informative && isKnown(x) && t < pLive[i].size() && pLive[i][t] > 0.5)
+          v.push_back(x);
+      }
+    if (v.empty()) continue;
+    auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
+    std::nth_element(v.begin(), mid, v.end());
+    ref[static_cast<std::size_t>(j)] = *mid;
+  }
+  return ref;
+}
+
+MorphBaseline localBaseline(const TrapEvidence& ev, const std::vector<float>& pLive,
+                            double window) {
+  const std::size_t T = ev.size();
+  MorphBaseline out(T);
+  const double decay = std::exp(-1.0 / std::max(1.0, window));
+  for (int j = 0; j < kMorphCount; ++j) {
+    const auto jj = static_cast<std::size_t>(j);
+    // Forward and backward exponential filters of weighted sums, excluding the frame itself.
+    std::vector<double> fw(T, 0.0), fs(T, 0.0), bw(T, 0.0), bs(T, 0.0);
+    double w = 0, s = 0;
+    auto step = [&](std::size_t t) {
+      const double v = ev[t].morph[jj];
+      const double p = t < pLive.size() ? pLive[t] : 0.0;
+      w *= decay;
+      s *= decay;
+      if (ev[t].informative && isKnown(v)) {
+        w += decay * p;
+        s += decay * p * v;
+      }
+    };
+    for (std::size_t t = 0; t < T; ++t) {
+      fw[t] = w;
+      fs[t] = s;
+      step(t);
+    }
+    w = s = 0;
+    for (std::size_t t = T; t-- > 0;) {
+      bw[t] = w;
+      bs[t] = s;
+      step(t);
+    }
+    for (std::size_t t = 0; t < T; ++t) {
+      const double weight = fw[t] + bw[t];
+      out[t][jj] = weight > 1e-3 ? (fs[t] + bs[t]) / weight : kMissing;
+    }
+  }
+  return out;
+}
+
+void initialiseDeadMorphology(EmissionParams& p, const std::vector<TrapEvidence>& evidence,
+                              const std::vector<MorphBaseline>& baselines) {
+  const std::size_t K = p.morphDeadMean.size();
+  for (int j = 0; j < kMorphCount; ++j) {
+    const auto jj = static_cast<std::size_t>(j);
+    std::vector<double> z;
+    for (std::size_t i = 0; i < evidence.size(); ++i)
+      for (std::size_t t = 0; t < evidence[i].size(); ++t) {
+        const double v = evidence[i][t].morph[jj], b = baselines[i][t][jj];
+        if (evidence[i][t].informative && isKnown(v) && isKnown(b)) z.push_back(v - b);
+      }
+    if (z.size() < 20) continue;
+    std::sort(z.begin(), z.end());
+    const double lo = z[z.size() / 50], hi = z[z.size() - 1 - z.size() / 50];
+    const double mid = z[z.size() / 2];
+    const double far = (hi - mid) >= (mid - lo) ? hi : lo;
+    for (std::size_t k = 0; k < K; ++k)
+      p.morphDeadMean[k][jj] = far * static_cast<double>(k + 1) / static_cast<double>(K);
+  }
+}
+
 std::vector<double> emissionLogLikelihood(const CycleModel& model, const EmissionParams& params,
-                                          const TrapEvidence& evidence) {
+                                          const TrapEvidence& evidence,
+                                          const MorphBaseline* baseline) {
   const int S = model.stateCount();
   const auto T = evidence.size();
   std::vector<double> out(T * static_cast<std::size_t>(S), 0.0);
@@ -63,33 +145,63 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
                          ? deadLikelihood(params.deadLook[g], params.deadPrior, f.deadLook)
                          : 1.0;
     }
+    // Morphology relative to the live baseline, per feature.
+    std::array<double, kMorphCount> z{};
+    std::array<bool, kMorphCount> zKnown{};
+    for (int j = 0; j < kMorphCount; ++j) {
+      const auto jj = static_cast<std::size_t>(j);
+      zKnown[jj] = baseline && isKnown(f.morph[jj]) && isKnown((*baseline)[t][jj]);
+      if (zKnown[jj]) z[jj] = f.morph[jj] - (*baseline)[t][jj];
+    }
     double* row = &out[t * static_cast<std::size_t>(S)];
     for (int s = 0; s < S; ++s) {
       const int g = groupIndex(model.group(s));
+      const int deadAge = model.deadAge(s);
+      for (int j = 0; j < kMorphCount; ++j) {
+        const auto jj = static_cast<std::size_t>(j);
+        if (!zKnown[jj]) continue;
+        const double flat = 1.0 / (16 * params.morphLiveSigma[jj]);
+        double dens = flat;
+        if (deadAge > 0)
+          dens = gaussian(z[jj], params.morphDeadMean[static_cast<std::size_t>(deadAge - 1)][jj],
+                          params.morphDeadSigma[jj]);
+        else if (model.isLive(s))
+          dens = gaussian(z[jj], 0.0, params.morphLiveSigma[jj]);
+        row[s] += std::log((1 - eps) * dens + eps * flat);
+      }
       double l = std::log((1 - eps) * groupOcc[g] + eps);
       if (isKnown(f.deadLook)) l += std::log((1 - eps) * groupDead[g] + eps);
       if (isKnown(f.budRatio)) {
         const int age = model.budAge(s);
-        const double dens =
-            age > 0 ? gaussian(f.budRatio, params.budRatioMean[static_cast<std::size_t>(age - 1)],
-                               params.budRatioSigma)
-                    : ratioFlat;
+        const StateGroup group = model.group(s);
+        double dens = ratioFlat;
+        if (age > 0)
+          dens = gaussian(f.budRatio, params.budRatioMean[static_cast<std::size_t>(age - 1)],
+                          params.budRatioSigma);
+        else if (group == StateGroup::Unbudded)
+          dens = gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
+        else if (group == StateGroup::Dead)
+          dens = gaussian(f.budRatio, params.budRatioDeadMean, params.budRatioDeadSigma);
         l += std::log((1 - eps) * dens + eps * ratioFlat);
       }
-      row[s] = l;
+      row[s] += l;
     }
   }
   return out;
 }
 
-EmissionStatistics::EmissionStatistics(int m)
+EmissionStatistics::EmissionStatistics(int m, int k)
     : ratioW_(static_cast<std::size_t>(m), 0.0),
       ratioSum_(static_cast<std::size_t>(m), 0.0),
-      ratioSq_(static_cast<std::size_t>(m), 0.0) {}
+      ratioSq_(static_cast<std::size_t>(m), 0.0),
+      deadW_(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0}),
+      deadSum_(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0}),
+      deadSq_(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0}) {}
 
 void EmissionStatistics::add(const CycleModel& model, const EmissionParams& params,
                              const TrapEvidence& evidence,
-                             const std::vector<double>& statePosterior) {
+                             const std::vector<double>& statePosterior,
+                             const MorphBaseline* baseline) {
   const int S = model.stateCount();
   for (std::size_t t = 0; t < evidence.size(); ++t) {
     const FrameEvidence& f = evidence[t];
@@ -98,6 +210,23 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
     for (int s = 0; s < S; ++s) {
       const double w = gamma[s];
       if (w < 1e-6) continue;
+      if (baseline) {
+        const int deadAge = model.deadAge(s);
+        for (int j = 0; j < kMorphCount; ++j) {
+          const auto jj = static_cast<std::size_t>(j);
+          if (!isKnown(f.morph[jj]) || !isKnown((*baseline)[t][jj])) continue;
+          const double z = f.morph[jj] - (*baseline)[t][jj];
+          if (deadAge > 0) {
+            auto k = static_cast<std::size_t>(deadAge - 1);
+            deadW_[k][jj] += w;
+            deadSum_[k][jj] += w * z;
+            deadSq_[k][jj] += w * z * z;
+          } else if (model.isLive(s)) {
+            liveW_[jj] += w;
+            liveSq_[jj] += w * z * z;
+          }
+        }
+      }
       const int g = groupIndex(model.group(s));
       const double l = occupancyLikelihood(params.occupancy[g], params.classPrior, f.occupancy);
       if (l > 0)
@@ -113,6 +242,21 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
         }
       }
       const int age = model.budAge(s);
+      const StateGroup group = model.group(s);
+      if (age == 0 && isKnown(f.budRatio) &&
+          (group == StateGroup::Unbudded || group == StateGroup::Dead)) {
+        const bool dead = group == StateGroup::Dead;
+        const double dens =
+            dead ? gaussian(f.budRatio, params.budRatioDeadMean, params.budRatioDeadSigma)
+                 : gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
+        const double flat = 1.0 / params.budRatioRange;
+        const double inlier = (1 - params.outlier) * dens /
+                              ((1 - params.outlier) * dens + params.outlier * flat);
+        const std::size_t g = dead ? 1 : 0;
+        otherW_[g] += w * inlier;
+        otherSum_[g] += w * inlier * f.budRatio;
+        otherSq_[g] += w * inlier * f.budRatio * f.budRatio;
+      }
       if (age > 0 && isKnown(f.budRatio)) {
         const auto k = static_cast<std::size_t>(age - 1);
         // Down-weight readings the outlier component explains better.
@@ -138,6 +282,21 @@ void EmissionStatistics::merge(const EmissionStatistics& o) {
     ratioSum_[k] += o.ratioSum_[k];
     ratioSq_[k] += o.ratioSq_[k];
   }
+  for (std::size_t g = 0; g < 2; ++g) {
+    otherW_[g] += o.otherW_[g];
+    otherSum_[g] += o.otherSum_[g];
+    otherSq_[g] += o.otherSq_[g];
+  }
+  for (int j = 0; j < kMorphCount; ++j) {
+    const auto jj = static_cast<std::size_t>(j);
+    liveW_[jj] += o.liveW_[jj];
+    liveSq_[jj] += o.liveSq_[jj];
+    for (std::size_t k = 0; k < deadW_.size() && k < o.deadW_.size(); ++k) {
+      deadW_[k][jj] += o.deadW_[k][jj];
+      deadSum_[k][jj] += o.deadSum_[k][jj];
+      deadSq_[k][jj] += o.deadSq_[k][jj];
+    }
+  }
 }
 
 EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double priorWeight) const {
@@ -149,7 +308,10 @@ EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double 
       row[c] = occ_[g][c] + priorWeight * prior.occupancy[g][c];
       total += row[c];
     }
-    for (int c = 0; c < 4; ++c) p.occupancy[g][c] = clampProbability(row[c] / total);
+    // An empty trap is what the classifier calls empty: its row is not learned, or EM
+    // could make "empty" a home for anything the other states explain badly.
+    if (g != groupIndex(StateGroup::Empty))
+      for (int c = 0; c < 4; ++c) p.occupancy[g][c] = clampProbability(row[c] / total);
     const double dead = dead_[g][1] + priorWeight * prior.deadLook[g];
     const double alive = dead_[g][0] + priorWeight * (1 - prior.deadLook[g]);
     p.deadLook[g] = clampProbability(dead / (dead + alive));
@@ -165,9 +327,81 @@ EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double 
   const double s2 =
       (sq + priorWeight * prior.budRatioSigma * prior.budRatioSigma) / (w + priorWeight);
   p.budRatioSigma = std::clamp(std::sqrt(std::max(0.0, s2)), 0.02, 0.5);
+  // Bud ratio where no bud grows.
+  {
+    const double mu[2] = {prior.budRatioUnbuddedMean, prior.budRatioDeadMean};
+    const double sg[2] = {prior.budRatioUnbuddedSigma, prior.budRatioDeadSigma};
+    double outMean[2], outSigma[2];
+    for (std::size_t g = 0; g < 2; ++g) {
+      const double wsum = otherW_[g] + priorWeight;
+      outMean[g] = (otherSum_[g] + priorWeight * mu[g]) / wsum;
+      const double var = (otherSq_[g] - 2 * outMean[g] * otherSum_[g] +
+                          otherW_[g] * outMean[g] * outMean[g] + priorWeight * sg[g] * sg[g]) /
+                         wsum;
+      outSigma[g] = std::sqrt(std::max(0.0, var));
+    }
+    p.budRatioUnbuddedMean = std::clamp(outMean[0], 0.0, 0.3);
+    p.budRatioUnbuddedSigma = std::clamp(outSigma[0], 0.03, 0.5);
+    p.budRatioDeadMean = std::clamp(outMean[1], 0.0, 1.0);
+    p.budRatioDeadSigma = std::clamp(outSigma[1], 0.05, 0.6);
+  }
   // Bud ages must keep growing, or the chain could explain a shrinking bud.
   for (std::size_t k = 1; k < p.budRatioMean.size(); ++k)
     p.budRatioMean[k] = std::max(p.budRatioMean[k], p.budRatioMean[k - 1]);
+
+  // Morphology: live spread, and the change after death by dead age. The change may go
+  // either way per feature but must not reverse as the corpse ages (pool-adjacent-
+  // violators on the weighted means, in the direction the oldest age shows).
+  const std::size_t K = deadW_.size();
+  p.morphDeadMean.resize(K);
+  for (int j = 0; j < kMorphCount; ++j) {
+    const auto jj = static_cast<std::size_t>(j);
+    const double priorSigma = prior.morphLiveSigma[jj];
+    if (liveW_[jj] > 1)
+      p.morphLiveSigma[jj] = std::max(1e-6, std::sqrt((liveSq_[jj] + priorWeight * priorSigma *
+                                                                         priorSigma) /
+                                                      (liveW_[jj] + priorWeight)));
+    std::vector<double> mean(K), weight(K);
+    double totalW = 0, sq = 0;
+    for (std::size_t k = 0; k < K; ++k) {
+      weight[k] = deadW_[k][jj] + 1.0;  // one pseudo-frame at zero change
+      mean[k] = deadSum_[k][jj] / weight[k];
+      totalW += deadW_[k][jj];
+    }
+    const double direction = mean[K - 1] >= 0 ? 1.0 : -1.0;
+    // PAV for a non-decreasing sequence of direction * mean.
+    std::vector<double> level, lw;
+    std::vector<std::size_t> count;
+    for (std::size_t k = 0; k < K; ++k) {
+      level.push_back(direction * mean[k]);
+      lw.push_back(weight[k]);
+      count.push_back(1);
+      while (level.size() > 1 && level[level.size() - 2] > level.back()) {
+        const double w2 = lw.back() + lw[lw.size() - 2];
+        const double v = (level.back() * lw.back() + level[level.size() - 2] * lw[lw.size() - 2]) / w2;
+        const std::size_t c = count.back() + count[count.size() - 2];
+        level.pop_back();
+        lw.pop_back();
+        count.pop_back();
+        level.back() = v;
+        lw.back() = w2;
+        count.back() = c;
+      }
+    }
+    std::size_t k = 0;
+    for (std::size_t b = 0; b < level.size(); ++b)
+      for (std::size_t i = 0; i < count[b]; ++i, ++k) p.morphDeadMean[k][jj] = direction * level[b];
+    for (std::size_t kk = 0; kk < K; ++kk) {
+      const double mu = p.morphDeadMean[kk][jj];
+      sq += deadSq_[kk][jj] - 2 * mu * deadSum_[kk][jj] + deadW_[kk][jj] * mu * mu;
+    }
+    if (totalW > 1)
+      p.morphDeadSigma[jj] = std::max(
+          0.5 * p.morphLiveSigma[jj],
+          std::sqrt((sq + priorWeight * priorSigma * priorSigma) / (totalW + priorWeight)));
+    else
+      p.morphDeadSigma[jj] = p.morphLiveSigma[jj];
+  }
   return p;
 }
 

@@ -4,9 +4,15 @@
 //  - occupancy: the classifier's posteriors become scaled likelihoods
 //    q(c)/prior(c) (Bourlard & Morgan's hybrid HMM), mixed by P(class | state
 //    group), a confusion table learned from the data by EM;
-//  - bud size: bud/mother area ratio, Gaussian around a mean that grows with
-//    the bud's age (only when a bud was measured);
-//  - dead look: the morphology score, mixed by P(dead look | state group).
+//  - bud size: bud/mother area ratio (0 without a bud; only when a mother was
+//    measured), Gaussian around a mean that grows with the bud's age, near
+//    zero for an unbudded mother, broad for a dead one;
+//  - dead look: the morphology score, mixed by P(dead look | state group);
+//  - morphology: the mother's features minus the position's live baseline
+//    (what live mothers of this position look like), Gaussian with mean zero
+//    while alive and a mean that follows the time since death. A position-wide
+//    reference cannot be talked into taking a corpse for a live cell, as a
+//    trap's own baseline could.
 // Each channel is a robust mixture with a small outlier weight, so one bad
 // frame can shift a call by a bounded amount but never force an event.
 // An uninformative frame contributes log-likelihood 0 to every state.
@@ -26,27 +32,59 @@ struct EmissionParams {
   // Mean bud/mother area ratio by bud age 1..m (index 0 is age 1).
   std::vector<double> budRatioMean;
   double budRatioSigma = 0.08;
-  double budRatioRange = 1.5;  // uniform density for states without a growing bud
+  // Bud ratio where no bud grows: an unbudded mother (near zero, lingering daughters
+  // aside) and a dead one (a last bud that never separates, granules taken for buds).
+  double budRatioUnbuddedMean = 0.02, budRatioUnbuddedSigma = 0.05;
+  double budRatioDeadMean = 0.15, budRatioDeadSigma = 0.2;
+  double budRatioRange = 1.5;  // uniform density for the outlier component
   // P(dead look | state group).
   std::array<double, kStateGroupCount> deadLook{};
   double deadPrior = 0.5;  // prior under which deadLook was calibrated
+  // Morphology relative to the live baseline: spread while alive, mean by dead age.
+  std::array<double, kMorphCount> morphLiveSigma{1, 1, 1};
+  std::array<double, kMorphCount> morphDeadSigma{1, 1, 1};
+  std::vector<std::array<double, kMorphCount>> morphDeadMean;  // K entries
   double outlier = 0.01;   // robust mixture weight of every channel
 
-  // Common-practice starting values for a model with `buddedFrames` bud ages.
-  static EmissionParams defaults(int buddedFrames);
+  // Common-practice starting values for a model with `buddedFrames` bud ages and
+  // `deadFrames` dead ages.
+  static EmissionParams defaults(int buddedFrames, int deadFrames = 1);
 };
+
+// A trap's morphology baseline per frame ([frames] x kMorphCount); NaN where none.
+using MorphBaseline = std::vector<std::array<double, kMorphCount>>;
+
+// The position's live reference: per feature, the median over every trap-frame with
+// P(live) > 1/2.
+std::array<double, kMorphCount> liveReference(const std::vector<TrapEvidence>& evidence,
+                                              const std::vector<std::vector<float>>& pLive);
+
+// A trap's own local live baseline: averages of each feature over its other frames,
+// weighted by P(live) and by exp(-|dt| / window), so a mother growing with age keeps a
+// fresh reference and a dead frame is compared with the live frames nearest to it.
+// Used once the position-wide reference has said where the live frames are.
+MorphBaseline localBaseline(const TrapEvidence& evidence, const std::vector<float>& pLive,
+                            double windowFrames);
+
+// Starting values for the change after death, from the data: the dead frames are the
+// long tail of each feature's deviation from the live reference; the side of the longer
+// tail gives the direction and its far quantile the size, reached at the oldest age.
+void initialiseDeadMorphology(EmissionParams& params,
+                              const std::vector<TrapEvidence>& evidence,
+                              const std::vector<MorphBaseline>& baselines);
 
 // [frames x states] log-likelihoods of one trap's evidence.
 std::vector<double> emissionLogLikelihood(const CycleModel& model, const EmissionParams& params,
-                                          const TrapEvidence& evidence);
+                                          const TrapEvidence& evidence,
+                                          const MorphBaseline* baseline = nullptr);
 
 // Sufficient statistics for re-estimating EmissionParams from state posteriors
 // (the M step of Baum-Welch, Rabiner 1989 sec. III.C), pooled over traps.
 class EmissionStatistics {
  public:
-  explicit EmissionStatistics(int buddedFrames);
+  EmissionStatistics(int buddedFrames, int deadFrames);
   void add(const CycleModel& model, const EmissionParams& params, const TrapEvidence& evidence,
-           const std::vector<double>& statePosterior);
+           const std::vector<double>& statePosterior, const MorphBaseline* baseline = nullptr);
   void merge(const EmissionStatistics& other);
   // Re-estimated parameters; `prior` supplies pseudo-counts of weight `priorWeight` per row.
   EmissionParams estimate(const EmissionParams& prior, double priorWeight) const;
@@ -55,6 +93,9 @@ class EmissionStatistics {
   std::array<std::array<double, 4>, kStateGroupCount> occ_{};
   std::array<std::array<double, 2>, kStateGroupCount> dead_{};
   std::vector<double> ratioW_, ratioSum_, ratioSq_;
+  std::array<double, 2> otherW_{}, otherSum_{}, otherSq_{};  // unbudded, dead
+  std::array<double, kMorphCount> liveW_{}, liveSq_{};
+  std::vector<std::array<double, kMorphCount>> deadW_, deadSum_, deadSq_;
 };
 
 }  // namespace budledger::propose

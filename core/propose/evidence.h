@@ -24,7 +24,13 @@ struct FrameEvidence {
   double budRatio = kMissing;
   // P(the mother looks dead | crop) from morphology; NaN when unknown.
   double deadLook = kMissing;
+  // The mother's morphology (e.g. contrast, texture, log area), compared by the temporal
+  // model with her own live baseline to see the gradual change after death; NaN when no
+  // mother was measured.
+  std::array<double, 3> morph{kMissing, kMissing, kMissing};
 };
+
+inline constexpr int kMorphCount = 3;
 
 using TrapEvidence = std::vector<FrameEvidence>;  // one per frame
 

@@ -80,8 +80,8 @@ void countTransitions(const CycleModel& model, const SparseHmm::Posteriors& post
         if (tag == Transition::Stay) c.tailStay += row[a];
         if (tag == Transition::Separation) c.separation += row[a];
         if (tag == Transition::SeparationBud) c.separationBud += row[a];
-      } else if (arc.from == CycleModel::emptyState()) {
-        if (tag == Transition::Stay) c.emptyStay += row[a];
+      } else if (arc.from == CycleModel::emptyState() || arc.from == model.vacatedState()) {
+        if (tag == Transition::Stay || tag == Transition::Advance) c.emptyStay += row[a];
         if (tag == Transition::Arrival) c.arrival += row[a];
       }
     }
@@ -119,13 +119,13 @@ int argmax4(const std::array<double, 4>& q) {
 
 TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
                      const EmissionParams& emission, const TrapEvidence& evidence,
-                     const ReviewRules& review) {
+                     const ReviewRules& review, const MorphBaseline* baseline) {
   TrapCalls out;
   out.trap = trap;
   const int T = static_cast<int>(evidence.size());
   if (T == 0) return out;
   const int S = model.stateCount();
-  const auto em = emissionLogLikelihood(model, emission, evidence);
+  const auto em = emissionLogLikelihood(model, emission, evidence, baseline);
   const SparseHmm& hmm = model.hmm();
   out.path = hmm.viterbi(em, T);
   const auto post = hmm.forwardBackward(em, T);
@@ -142,8 +142,10 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
     }
     out.pLive[static_cast<std::size_t>(t)] = static_cast<float>(live);
     out.pBudded[static_cast<std::size_t>(t)] = static_cast<float>(budded);
-    out.pDead[static_cast<std::size_t>(t)] =
-        static_cast<float>(post.state[static_cast<std::size_t>(t * S + model.deadState())]);
+    double dead = 0;
+    for (int k = 1; k <= model.deadFrames(); ++k)
+      dead += post.state[static_cast<std::size_t>(t * S + model.deadState(k))];
+    out.pDead[static_cast<std::size_t>(t)] = static_cast<float>(dead);
   }
 
   // Review flags from what the classifier saw in informative frames.
@@ -209,30 +211,81 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
   PositionCalls out;
   CycleParams cycle = options.cycle;
   CycleModel model(cycle);
-  EmissionParams emission = EmissionParams::defaults(model.buddedFrames());
-  const EmissionParams emissionPrior = emission;
+  EmissionParams emission = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
   const std::size_t n = evidence.size();
   const int iterations = std::max(0, options.emIterations);
-  int workers =
-      options.threads > 0 ? options.threads : static_cast<int>(std::thread::hardware_concurrency());
+  int workers = options.threads > 0 ? options.threads
+                                    : static_cast<int>(std::thread::hardware_concurrency());
   workers = std::max(1, workers);
 
+  // Start: a mother is wherever the classifier sees anything; her live baseline and the
+  // spread of her morphology around it come from those frames.
+  std::vector<std::vector<float>> pLive(n);
+  for (std::size_t i = 0; i < n; ++i)
+    for (const auto& f : evidence[i])
+      pLive[i].push_back(f.informative ? static_cast<float>(1 - f.occupancy[kEmpty]) : 0.f);
+  std::vector<MorphBaseline> baselines(n);
+  auto updateBaselines = [&] {
+    const auto ref = liveReference(evidence, pLive);
+    for (std::size_t i = 0; i < n; ++i) baselines[i].assign(evidence[i].size(), ref);
+  };
+  updateBaselines();
+  for (int j = 0; j < kMorphCount; ++j) {
+    std::vector<double> dev;
+    for (std::size_t i = 0; i < n; ++i)
+      for (std::size_t t = 0; t < evidence[i].size(); ++t) {
+        const double v = evidence[i][t].morph[static_cast<std::size_t>(j)];
+        const double b = baselines[i][t][static_cast<std::size_t>(j)];
+        if (pLive[i][t] > 0.5 && isKnown(v) && isKnown(b)) dev.push_back(std::abs(v - b));
+      }
+    if (dev.size() > 10) {
+      std::nth_element(dev.begin(), dev.begin() + static_cast<std::ptrdiff_t>(dev.size() / 2),
+                       dev.end());
+      const double sd = std::max(1e-6, 1.4826 * dev[dev.size() / 2]);
+      emission.morphLiveSigma[static_cast<std::size_t>(j)] = sd;
+      emission.morphDeadSigma[static_cast<std::size_t>(j)] = sd;
+    }
+  }
+  initialiseDeadMorphology(emission, evidence, baselines);
+  EmissionParams emissionPrior = emission;
+
+  // Baum-Welch rounds; the last `localRounds` compare each mother with her own local
+  // live baseline (fixed from the position-wide rounds' posteriors) to time death well.
+  const int localRounds = std::min(iterations, std::max(0, options.localBaselineRounds));
   for (int it = 0; it < iterations; ++it) {
     progress("temporal model", static_cast<double>(it) / (iterations + 1));
-    std::vector<EmissionStatistics> stats(static_cast<std::size_t>(workers),
-                                          EmissionStatistics(model.buddedFrames()));
+    if (it == iterations - localRounds && localRounds > 0) {
+      const double window = options.localWindowMin / std::max(1e-9, cycle.intervalMin);
+      parallelFor(n, workers, [&](std::size_t i, int) {
+        baselines[i] = localBaseline(evidence[i], pLive[i], window);
+      });
+      emissionPrior = emission;
+      initialiseDeadMorphology(emission, evidence, baselines);
+    }
+    const bool positionWide = it < iterations - localRounds;
+    std::vector<EmissionStatistics> stats(
+        static_cast<std::size_t>(workers),
+        EmissionStatistics(model.buddedFrames(), model.deadFrames()));
     std::vector<TransitionCounts> counts(static_cast<std::size_t>(workers));
     std::vector<double> logL(static_cast<std::size_t>(workers), 0.0);
     parallelFor(n, workers, [&](std::size_t i, int w) {
       const auto& ev = evidence[i];
       const int T = static_cast<int>(ev.size());
       if (T == 0) return;
-      const auto em = emissionLogLikelihood(model, emission, ev);
+      const auto em = emissionLogLikelihood(model, emission, ev, &baselines[i]);
       const auto post = model.hmm().forwardBackward(em, T);
       if (!std::isfinite(post.logLikelihood)) return;
-      stats[static_cast<std::size_t>(w)].add(model, emission, ev, post.state);
+      stats[static_cast<std::size_t>(w)].add(model, emission, ev, post.state, &baselines[i]);
       countTransitions(model, post, T, counts[static_cast<std::size_t>(w)]);
       logL[static_cast<std::size_t>(w)] += post.logLikelihood;
+      if (!positionWide) return;
+      const int S = model.stateCount();
+      for (int t = 0; t < T; ++t) {
+        double live = 0;
+        for (int s = 0; s < S; ++s)
+          if (model.isLive(s)) live += post.state[static_cast<std::size_t>(t * S + s)];
+        pLive[i][static_cast<std::size_t>(t)] = static_cast<float>(live);
+      }
     });
     for (int w = 1; w < workers; ++w) {
       stats[0].merge(stats[static_cast<std::size_t>(w)]);
@@ -241,12 +294,16 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
     emission = stats[0].estimate(emissionPrior, options.emissionPriorWeight);
     cycle = reestimate(options.cycle, counts[0], options.transitionPriorWeight);
     model = CycleModel(cycle);
+    if (positionWide) updateBaselines();
+    out.logLikelihood = 0;
+    for (double l : logL) out.logLikelihood += l;
   }
 
   progress("temporal model", static_cast<double>(iterations) / (iterations + 1));
   out.traps.resize(n);
   parallelFor(n, workers, [&](std::size_t i, int) {
-    out.traps[i] = decodeTrap(position, trapIds[i], model, emission, evidence[i], options.review);
+    out.traps[i] = decodeTrap(position, trapIds[i], model, emission, evidence[i], options.review,
+                              &baselines[i]);
   });
   out.cycle = cycle;
   out.emission = emission;

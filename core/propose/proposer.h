@@ -29,8 +29,10 @@ struct ReviewRules {
 
 struct ProposeOptions {
   CycleParams cycle;
-  int emIterations = 4;
-  double emissionPriorWeight = 50;    // pseudo-counts per confusion row
+  int emIterations = 6;
+  int localBaselineRounds = 2;      // last rounds compare a mother with her own live frames
+  double localWindowMin = 300;      // reach of that local baseline
+  double emissionPriorWeight = 200;   // pseudo-counts per confusion row
   double transitionPriorWeight = 20;  // pseudo-counts per duration estimate
   ReviewRules review;
   int threads = 0;  // 0: all hardware threads
@@ -65,6 +67,6 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
 // Decodes one trap under a fixed model (no re-estimation).
 TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
                      const EmissionParams& emission, const TrapEvidence& evidence,
-                     const ReviewRules& review);
+                     const ReviewRules& review, const MorphBaseline* baseline = nullptr);
 
 }  // namespace budledger::propose
