@@ -82,6 +82,7 @@ nlohmann::json parametersJson(const EngineOptions& o) {
           {"version", kVersion},
           {"mother_diameter_um_start", o.motherDiameterUm},
           {"background_samples", o.backgroundSamples},
+          {"lodged_neighbour_min", o.lodgedMin},
           {"segment",
            {{"threshold_sd", s.threshold},
             {"smooth_sigma_px", s.smoothSigmaPx},
@@ -143,6 +144,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   const auto background = measure::BackgroundModel::learn(samples, in.cup.x, in.cup.y, bo);
   measure::SegmentParams seg = options.segment;
   seg.motherRadiusPx = startRadius;
+  seg.keepMask = false;
   std::vector<double> noises;
   for (std::size_t i = 0; i < N; ++i)
     for (const auto& s : samples[i])
@@ -181,6 +183,10 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   std::vector<std::vector<measure::FrameFeatures>> features(N);
   std::vector<std::vector<measure::ClassProbabilities>> probabilities(N);
   std::atomic<int> done{0};
+  measure::SegmentParams segKeep = seg;
+  segKeep.keepMask = true;
+  const int lodgeFrames =
+      std::max(4, static_cast<int>(std::ceil(options.lodgedMin / std::max(1e-9, in.intervalMin))));
   parallelFor(N, options.threads, [&](std::size_t i) {
     readings[i].resize(static_cast<std::size_t>(T));
     features[i].resize(static_cast<std::size_t>(T));
@@ -188,20 +194,43 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
     evidence[i].resize(static_cast<std::size_t>(T));
     for (int t = 0; t < T; ++t) {
       const auto ut = static_cast<std::size_t>(t);
+      if (!informative[ut]) continue;
+      const cv::Mat crop = measure::normaliseCrop(crops[i][ut]);
+      readings[i][ut] =
+          measure::segmentCrop(crop, background.background(i), noise, geometry, segKeep);
+    }
+    const auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
+    int previous = -1;  // last informative frame
+    std::vector<int> previousAttached;
+    for (int t = 0; t < T; ++t) {
+      const auto ut = static_cast<std::size_t>(t);
       propose::FrameEvidence& e = evidence[i][ut];
       if (!informative[ut]) {
         e.informative = false;
         continue;
       }
-      const cv::Mat crop = measure::normaliseCrop(crops[i][ut]);
-      readings[i][ut] = measure::segmentCrop(crop, background.background(i), noise, geometry, seg);
-      features[i][ut] = measure::computeFeatures(readings[i][ut], fctx);
+      features[i][ut] = measure::computeFeatures(readings[i][ut], fctx, lodged[ut]);
       probabilities[i][ut] = model.predict(features[i][ut]);
       const auto& f = features[i][ut];
       e.occupancy = probabilities[i][ut];
-      e.budRatio = f.hasMother ? f.budRatio : propose::kMissing;
+      // Beside a lodged neighbour a bud can hide: its size is then not evidence.
+      e.budRatio = f.hasMother && !f.lodgedNeighbour ? f.budRatio : propose::kMissing;
       if (f.hasMother)
         e.morph = {f.motherContrast, f.motherTexture, std::log(std::max(1.0, f.motherAreaPx))};
+      std::vector<int> attached;
+      for (const auto& a : measure::attachedCells(readings[i][ut], fctx))
+        if (std::find(lodged[ut].begin(), lodged[ut].end(), a.cell) == lodged[ut].end())
+          attached.push_back(a.cell);
+      if (previous >= 0 && f.hasMother)
+        e.departure = measure::departedArea(readings[i][static_cast<std::size_t>(previous)],
+                                            previousAttached, readings[i][ut],
+                                            0.5 * seg.threshold);
+      previous = t;
+      previousAttached = std::move(attached);
+    }
+    for (auto& r : readings[i]) {
+      r.mask.release();
+      r.difference.release();
     }
     ++done;
   });
@@ -252,7 +281,10 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       out.measurements.push_back(std::move(m));
     }
   }
-  if (options.keepFeatures) out.features = std::move(features);
+  if (options.keepFeatures) {
+    out.features = std::move(features);
+    out.evidence = std::move(evidence);
+  }
   out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
   progress("engine", 1.0);
   return out;

@@ -28,6 +28,7 @@ namespace budledger::engine {
 struct EngineOptions {
   double motherDiameterUm = 4.4;  // starting guess (common practice), refined from the data
   int backgroundSamples = 16;     // frames per trap the background is learned from
+  double lodgedMin = 150;         // an unchanging neighbour for this long is not a bud
   measure::SegmentParams segment;
   propose::ProposeOptions propose;
   int threads = 0;            // 0: all hardware threads
@@ -57,6 +58,7 @@ struct EngineResult {
   std::string note;            // a position-level problem, empty when none
   double seconds = 0;
   std::vector<std::vector<measure::FrameFeatures>> features;  // [trap][frame] if kept
+  std::vector<propose::TrapEvidence> evidence;                // [trap] if kept
 };
 
 EngineResult runEngine(const EngineInputs& inputs, const EngineOptions& options,

@@ -4,6 +4,7 @@
 // micrometres. The mother is the cell seated in the cup; a bud is a cell that
 // touches the mother and is smaller than her; every other cell is a daughter
 // or passer-by ("other").
+#include <opencv2/core.hpp>
 #include <vector>
 
 namespace budledger::measure {
@@ -28,6 +29,10 @@ struct Cell {
 // One crop's reading. `mother` / `bud` index `cells`, -1 when absent.
 struct CropReading {
   std::vector<Cell> cells;
+  // When asked for (SegmentParams::keepMask): CV_16U, cell index + 1 per pixel, 0 for
+  // background; and the smoothed difference to the background in noise SDs (CV_32F).
+  cv::Mat mask;
+  cv::Mat difference;
   int mother = -1;
   int bud = -1;
   double foregroundPx = 0;

@@ -1,6 +1,7 @@
 #include "core/measure/segment.h"
 
 #include <algorithm>
+#include <cstdint>
 #include <cmath>
 #include <numbers>
 #include <numeric>
@@ -407,6 +408,25 @@ void splitProtrusion(cv::Mat& motherMask, const cv::Mat& diff, double sd, const 
   out.cells.push_back(b);
 }
 
+// Cell index + 1 per pixel (0: background or a speck too small to be a cell); the
+// mother's pixels outside her final mask belong to the protrusion bud.
+cv::Mat cellIndexImage(const cv::Mat& labels, const std::vector<int>& cellOfLabel, int mother,
+                       const cv::Mat& motherMask, int protrusion) {
+  cv::Mat out(labels.size(), CV_16U, cv::Scalar(0));
+  for (int y = 0; y < labels.rows; ++y) {
+    const int* l = labels.ptr<int>(y);
+    auto* o = out.ptr<std::uint16_t>(y);
+    for (int x = 0; x < labels.cols; ++x) {
+      if (!l[x]) continue;
+      int idx = cellOfLabel[static_cast<std::size_t>(l[x])];
+      if (idx < 0) continue;
+      if (idx == mother && !motherMask.at<uchar>(y, x)) idx = protrusion;
+      if (idx >= 0) o[x] = static_cast<std::uint16_t>(idx + 1);
+    }
+  }
+  return out;
+}
+
 }  // namespace
 
 OutlineAreas outlineAreas(const cv::Mat& crop, const cv::Mat& background, double noiseSd,
@@ -450,6 +470,7 @@ CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double n
   CropReading out;
   const double sd = std::max(noiseSd, 1e-6);
   const cv::Mat diff = smoothedDifference(crop, background, params.smoothSigmaPx);
+  if (params.keepMask) out.difference = diff / sd;
   {
     // Segmentation-free presence: mean |difference| in the disk a mother would fill.
     const double r = std::max(1.0, params.motherRadiusPx);
@@ -472,7 +493,10 @@ CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double n
   }
   cv::Mat mask = outlineMask(diff, sd, params.polarity, params.threshold);
   out.foregroundPx = cv::countNonZero(mask);
-  if (out.foregroundPx == 0) return out;
+  if (out.foregroundPx == 0) {
+    if (params.keepMask) out.mask = cv::Mat(mask.size(), CV_16U, cv::Scalar(0));
+    return out;
+  }
 
   cv::Mat labels;
   const int n = splitCells(mask, params, labels);
@@ -506,14 +530,22 @@ CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double n
       out.mother = static_cast<int>(i);
     }
   }
-  if (out.mother < 0) return out;
+  if (out.mother < 0) {
+    if (params.keepMask) out.mask = cellIndexImage(labels, cellOfLabel, -1, cv::Mat(), -1);
+    return out;
+  }
   out.cells[static_cast<std::size_t>(out.mother)].role = CellRole::Mother;
 
   int motherLabel = 0;
   for (int l = 1; l <= n; ++l)
     if (cellOfLabel[static_cast<std::size_t>(l)] == out.mother) motherLabel = l;
   cv::Mat motherMask = labels == motherLabel;
+  const std::size_t cellsBefore = out.cells.size();
   splitProtrusion(motherMask, diff, sd, geometry, params, out);
+  if (params.keepMask) {
+    const int protrusion = out.cells.size() > cellsBefore ? static_cast<int>(cellsBefore) : -1;
+    out.mask = cellIndexImage(labels, cellOfLabel, out.mother, motherMask, protrusion);
+  }
 
   // Cells touching the mother: their labels meet hers within a 2-pixel ring.
   cv::Mat ring;

@@ -34,6 +34,7 @@ struct SegmentParams {
   double seatRadiusFactor = 1.0;      // mother centre within this many radii of the cup
   double minMotherAreaFraction = 0.25;
   double neckRatio = 0.75;  // peaks joined by a ridge this high (of the lower peak) are one cell
+  bool keepMask = false;    // fill CropReading::mask (for departures between frames)
 };
 
 // `crop` and `background` are the same size (CV_32F); `noiseSd` is the SD of the

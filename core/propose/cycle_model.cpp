@@ -26,7 +26,7 @@ CycleModel::CycleModel(const CycleParams& p)
     : params_(p),
       m_(std::max(2, static_cast<int>(std::floor(p.minBuddedMin / p.intervalMin + 1e-9)))),
       k_(std::max(1, static_cast<int>(std::ceil(p.deathOnsetMin / p.intervalMin - 1e-9)))),
-      hmm_(m_ + 3 + k_) {
+      hmm_(m_ + 5 + k_) {
   if (!(p.intervalMin > 0)) throw std::invalid_argument("frame interval must be positive");
   const double dt = p.intervalMin;
   const double arrive = perFrame(p.arrivalPerMin, dt);
@@ -48,12 +48,21 @@ CycleModel::CycleModel(const CycleParams& p)
     arc(e, 1, arrive * (1 - buddedArrival), T::Arrival);
     for (int k = 1; k <= m_; ++k) arc(e, buddedState(k), arrive * buddedArrival / m_, T::Arrival);
   }
-  // Unbudded live mother.
+  // Unbudded live mother, and the frame just after a separation without a new bud.
   const double leaveLive = wash + die;
   arc(1, 1, (1 - leaveLive) * (1 - bud), T::Stay);
   arc(1, buddedState(1), (1 - leaveLive) * bud, T::Bud);
   arc(1, deadState(), die, T::Death);
   arc(1, vacatedState(), wash, T::Washout);
+  const int j0 = separatedState(), j1 = separatedBudState();
+  arc(j0, 1, (1 - leaveLive) * (1 - bud), T::Advance);
+  arc(j0, buddedState(1), (1 - leaveLive) * bud, T::Bud);
+  arc(j0, deadState(), die, T::Death);
+  arc(j0, vacatedState(), wash, T::Washout);
+  // Just separated with the next bud already showing: that bud is one frame old.
+  arc(j1, buddedState(std::min(2, m_)), 1 - leaveLive, T::Advance);
+  arc(j1, deadState(), die, T::Death);
+  arc(j1, vacatedState(), wash, T::Washout);
   // Budded chain: forced advance up to age m, then stay or separate.
   for (int k = 1; k <= m_; ++k) {
     const int s = buddedState(k);
@@ -61,8 +70,8 @@ CycleModel::CycleModel(const CycleParams& p)
       arc(s, buddedState(k + 1), 1 - leaveLive, T::Advance);
     } else {
       arc(s, s, (1 - leaveLive) * (1 - sep), T::Stay);
-      arc(s, 1, (1 - leaveLive) * sep * (1 - rebud), T::Separation);
-      arc(s, buddedState(1), (1 - leaveLive) * sep * rebud, T::SeparationBud);
+      arc(s, j0, (1 - leaveLive) * sep * (1 - rebud), T::Separation);
+      arc(s, j1, (1 - leaveLive) * sep * rebud, T::SeparationBud);
     }
     arc(s, deadState(), die, T::Death);
     arc(s, vacatedState(), wash, T::Washout);
@@ -86,7 +95,10 @@ CycleModel::CycleModel(const CycleParams& p)
     throw std::logic_error("cycle model: " + problem);
 }
 
-int CycleModel::budAge(int state) const { return state >= 2 && state <= m_ + 1 ? state - 1 : 0; }
+int CycleModel::budAge(int state) const {
+  if (state == separatedBudState()) return 1;
+  return state >= 2 && state <= m_ + 1 ? state - 1 : 0;
+}
 
 int CycleModel::deadAge(int state) const {
   return state >= m_ + 2 && state <= m_ + 1 + k_ ? state - m_ - 1 : 0;
@@ -94,7 +106,7 @@ int CycleModel::deadAge(int state) const {
 
 StateGroup CycleModel::group(int state) const {
   if (state == 0 || state == vacatedState()) return StateGroup::Empty;
-  if (state == 1) return StateGroup::Unbudded;
+  if (state == 1 || state == separatedState()) return StateGroup::Unbudded;
   if (isDead(state)) return StateGroup::Dead;
   const int age = budAge(state);
   if (age == 1) return StateGroup::BudNew;

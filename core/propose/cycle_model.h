@@ -15,9 +15,13 @@
 // "vacated" for at least one frame before another can arrive: a new tenure
 // needs an empty frame between, so a flicker of detection cannot start one.
 //
+// The frame after a separation is its own state ("just separated", with or
+// without the next bud already showing), because that is the one frame in
+// which the daughter's departure can be seen.
+//
 // Invariants: state 0 is Empty, 1 Unbudded, 2..m+1 Budded age 1..m,
-// m+2..m+1+K Dead age 1..K, m+2+K Vacated; arcs out of each state sum to
-// one; all rates are per frame, derived from per-minute rates and the frame
+// m+2..m+1+K Dead age 1..K, m+2+K Vacated, m+3+K just separated, m+4+K just
+// separated with a new bud; arcs out of each state sum to one; all rates are per frame, derived from per-minute rates and the frame
 // interval, so the model scales with it.
 #include <string>
 
@@ -69,18 +73,22 @@ class CycleModel {
   const SparseHmm& hmm() const { return hmm_; }
   int buddedFrames() const { return m_; }
   int deadFrames() const { return k_; }
-  int stateCount() const { return m_ + 3 + k_; }
+  int stateCount() const { return m_ + 5 + k_; }
 
   static constexpr int emptyState() { return 0; }
   static constexpr int unbuddedState() { return 1; }
   int buddedState(int age) const { return 1 + age; }       // age 1..m
   int deadState(int age = 1) const { return m_ + 1 + age; }  // age 1..K
   int vacatedState() const { return m_ + 2 + k_; }
+  int separatedState() const { return m_ + 3 + k_; }     // unbudded, daughter just gone
+  int separatedBudState() const { return m_ + 4 + k_; }  // new bud (age 1), daughter just gone
+  bool justSeparated(int state) const { return state >= m_ + 3 + k_; }
   int budAge(int state) const;   // 1..m for budded states, else 0
   int deadAge(int state) const;  // 1..K for dead states, else 0
   bool isDead(int state) const { return deadAge(state) > 0; }
+  bool stateGroupHasMother(int state) const { return isLive(state) || isDead(state); }
   StateGroup group(int state) const;
-  bool isLive(int state) const { return state >= 1 && state <= m_ + 1; }
+  bool isLive(int state) const { return (state >= 1 && state <= m_ + 1) || justSeparated(state); }
   Transition tag(int arc) const { return static_cast<Transition>(hmm_.arcs()[arc].tag); }
 
  private:

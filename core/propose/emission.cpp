@@ -171,6 +171,13 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
       }
       double l = std::log((1 - eps) * groupOcc[g] + eps);
       if (isKnown(f.deadLook)) l += std::log((1 - eps) * groupDead[g] + eps);
+      if (isKnown(f.departure) && model.stateGroupHasMother(s)) {
+        const bool sep = model.justSeparated(s);
+        const double dens =
+            sep ? gaussian(f.departure, params.departSeparatedMean, params.departSeparatedSigma)
+                : gaussian(f.departure, params.departOtherMean, params.departOtherSigma);
+        l += std::log((1 - eps) * dens + eps * ratioFlat);
+      }
       if (isKnown(f.budRatio)) {
         const int age = model.budAge(s);
         const StateGroup group = model.group(s);
@@ -241,6 +248,19 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
           dead_[g][0] += w * b / (a + b);
         }
       }
+      if (isKnown(f.departure) && model.stateGroupHasMother(s)) {
+        const bool sep = model.justSeparated(s);
+        const double dens =
+            sep ? gaussian(f.departure, params.departSeparatedMean, params.departSeparatedSigma)
+                : gaussian(f.departure, params.departOtherMean, params.departOtherSigma);
+        const double flat = 1.0 / params.budRatioRange;
+        const double inlier = (1 - params.outlier) * dens /
+                              ((1 - params.outlier) * dens + params.outlier * flat);
+        const std::size_t g = sep ? 0 : 1;
+        departW_[g] += w * inlier;
+        departSum_[g] += w * inlier * f.departure;
+        departSq_[g] += w * inlier * f.departure * f.departure;
+      }
       const int age = model.budAge(s);
       const StateGroup group = model.group(s);
       if (age == 0 && isKnown(f.budRatio) &&
@@ -283,6 +303,9 @@ void EmissionStatistics::merge(const EmissionStatistics& o) {
     ratioSq_[k] += o.ratioSq_[k];
   }
   for (std::size_t g = 0; g < 2; ++g) {
+    departW_[g] += o.departW_[g];
+    departSum_[g] += o.departSum_[g];
+    departSq_[g] += o.departSq_[g];
     otherW_[g] += o.otherW_[g];
     otherSum_[g] += o.otherSum_[g];
     otherSq_[g] += o.otherSq_[g];
@@ -344,6 +367,20 @@ EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double 
     p.budRatioUnbuddedSigma = std::clamp(outSigma[0], 0.03, 0.5);
     p.budRatioDeadMean = std::clamp(outMean[1], 0.0, 1.0);
     p.budRatioDeadSigma = std::clamp(outSigma[1], 0.05, 0.6);
+    const double dmu[2] = {prior.departSeparatedMean, prior.departOtherMean};
+    const double dsg[2] = {prior.departSeparatedSigma, prior.departOtherSigma};
+    for (std::size_t g = 0; g < 2; ++g) {
+      const double wsum = departW_[g] + priorWeight;
+      outMean[g] = (departSum_[g] + priorWeight * dmu[g]) / wsum;
+      const double var = (departSq_[g] - 2 * outMean[g] * departSum_[g] +
+                          departW_[g] * outMean[g] * outMean[g] + priorWeight * dsg[g] * dsg[g]) /
+                         wsum;
+      outSigma[g] = std::sqrt(std::max(0.0, var));
+    }
+    p.departSeparatedMean = std::clamp(outMean[0], 0.0, 2.0);
+    p.departSeparatedSigma = std::clamp(outSigma[0], 0.05, 1.0);
+    p.departOtherMean = std::clamp(outMean[1], 0.0, 0.5);
+    p.departOtherSigma = std::clamp(outSigma[1], 0.02, 0.5);
   }
   // Bud ages must keep growing, or the chain could explain a shrinking bud.
   for (std::size_t k = 1; k < p.budRatioMean.size(); ++k)

@@ -7,6 +7,8 @@
 //  - bud size: bud/mother area ratio (0 without a bud; only when a mother was
 //    measured), Gaussian around a mean that grows with the bud's age, near
 //    zero for an unbudded mother, broad for a dead one;
+//  - departure: area other cells left near the mother since the last frame,
+//    large just after a separation (the daughter carried away);
 //  - dead look: the morphology score, mixed by P(dead look | state group);
 //  - morphology: the mother's features minus the position's live baseline
 //    (what live mothers of this position look like), Gaussian with mean zero
@@ -37,6 +39,9 @@ struct EmissionParams {
   double budRatioUnbuddedMean = 0.02, budRatioUnbuddedSigma = 0.05;
   double budRatioDeadMean = 0.15, budRatioDeadSigma = 0.2;
   double budRatioRange = 1.5;  // uniform density for the outlier component
+  // Departed area: large in the frame just after a separation, small otherwise.
+  double departSeparatedMean = 0.3, departSeparatedSigma = 0.2;
+  double departOtherMean = 0.01, departOtherSigma = 0.05;
   // P(dead look | state group).
   std::array<double, kStateGroupCount> deadLook{};
   double deadPrior = 0.5;  // prior under which deadLook was calibrated
@@ -94,6 +99,7 @@ class EmissionStatistics {
   std::array<std::array<double, 2>, kStateGroupCount> dead_{};
   std::vector<double> ratioW_, ratioSum_, ratioSq_;
   std::array<double, 2> otherW_{}, otherSum_{}, otherSq_{};  // unbudded, dead
+  std::array<double, 2> departW_{}, departSum_{}, departSq_{};  // just separated, other
   std::array<double, kMorphCount> liveW_{}, liveSq_{};
   std::vector<std::array<double, kMorphCount>> deadW_, deadSum_, deadSq_;
 };

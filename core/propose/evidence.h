@@ -22,6 +22,9 @@ struct FrameEvidence {
   // Area of the bud attached to the mother over the mother's area; NaN when
   // no bud was found (then only `occupancy` speaks about buds).
   double budRatio = kMissing;
+  // Area other cells left near the mother since the previous informative frame, over
+  // her area (a departing daughter); NaN when unknown.
+  double departure = kMissing;
   // P(the mother looks dead | crop) from morphology; NaN when unknown.
   double deadLook = kMissing;
   // The mother's morphology (e.g. contrast, texture, log area), compared by the temporal

@@ -73,8 +73,8 @@ void countTransitions(const CycleModel& model, const SparseHmm::Posteriors& post
     for (std::size_t a = 0; a < A; ++a) {
       const Arc& arc = arcs[a];
       const auto tag = static_cast<Transition>(arc.tag);
-      if (arc.from == CycleModel::unbuddedState()) {
-        if (tag == Transition::Stay) c.unbuddedStay += row[a];
+      if (arc.from == CycleModel::unbuddedState() || arc.from == model.separatedState()) {
+        if (tag == Transition::Stay || tag == Transition::Advance) c.unbuddedStay += row[a];
         if (tag == Transition::Bud) c.bud += row[a];
       } else if (arc.from == tail) {
         if (tag == Transition::Stay) c.tailStay += row[a];
