@@ -53,7 +53,7 @@ class Renderer {
   std::vector<double> flicker_;
   std::vector<double> defocus_;
   // Work buffers, reused frame to frame.
-  std::vector<float> phase_, absorb_, sharp_, wide_, tmp_;
+  std::vector<float> phase_, absorb_, sharp_, focus_, wide_, tmp_, rowI_, rowZ_;
 };
 
 // Separable Gaussian blur with clamped borders (sigma in px); iterated box

@@ -402,12 +402,17 @@ void validate(const Scenario& s, const std::string& sourceName) {
       fail(fmt::format("groups[{}]: mother_diameter_um {} does not enter an inlet of {} µm", i,
                        diameter, d.inletUm));
   }
+  // Pitches across and along the flow must leave room for a cup and for buds.
+  const bool vertical = d.flow == "down" || d.flow == "up";
+  const double across = vertical ? d.pitchXUm : d.pitchYUm;
+  const double along = vertical ? d.pitchYUm : d.pitchXUm;
   const double trapSpan = d.inletUm + 2.0 * d.wallUm + 2.0;
-  if (d.pitchXUm < trapSpan)
-    fail(fmt::format("device.pitch_x_um {} is narrower than a trap ({:.1f} µm)", d.pitchXUm,
-                     trapSpan));
-  if (d.pitchYUm < d.cupDepthUm + d.wallUm + 8.0)
-    fail(fmt::format("device.pitch_y_um {} leaves no room for buds between rows", d.pitchYUm));
+  if (across < trapSpan)
+    fail(fmt::format("device.pitch_{}_um {} is narrower than a trap ({:.1f} µm)",
+                     vertical ? "x" : "y", across, trapSpan));
+  if (along < d.cupDepthUm + d.wallUm + 8.0)
+    fail(fmt::format("device.pitch_{}_um {} leaves no room for buds between traps",
+                     vertical ? "y" : "x", along));
 }
 
 Scenario loadScenario(const std::filesystem::path& file) {

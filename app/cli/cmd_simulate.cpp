@@ -3,9 +3,11 @@
 // difficulty preset.
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <memory>
 #include <optional>
 #include <string>
+#include <thread>
 
 #include "app/cli/cli_support.h"
 #include "app/cli/commands.h"
@@ -21,7 +23,7 @@ struct SimulateArgs {
   std::optional<std::uint64_t> seed;
   std::optional<int> rows, cols, frames, positions;
   std::string difficulty = "normal";
-  int jobs = 1;
+  int jobs = static_cast<int>(std::clamp(std::thread::hardware_concurrency(), 1u, 4u));
   bool listParameters = false;
 };
 
@@ -47,7 +49,8 @@ void addSimulateCommand(CLI::App& root, Action& action) {
       ->check(CLI::Range(1, 1000));
   sub->add_option("--difficulty", a->difficulty, "Preset for --seed: easy, normal or hard")
       ->check(CLI::IsMember({"easy", "normal", "hard"}));
-  sub->add_option("--jobs", a->jobs, "Positions generated in parallel")->check(CLI::Range(1, 64));
+  sub->add_option("--jobs", a->jobs, "Positions generated in parallel (default: cores, at most 4)")
+      ->check(CLI::Range(1, 64));
   sub->add_flag("--list-parameters", a->listParameters,
                 "Print every scenario parameter with its default and source, as Markdown");
 

@@ -6,6 +6,11 @@
 #include <CLI/CLI.hpp>
 
 #include <functional>
+#include <vector>
+
+namespace budledger::store {
+class Project;
+}
 
 namespace budledger::cli {
 
@@ -13,6 +18,13 @@ using Action = std::function<int()>;
 
 void addSummaryCommand(CLI::App& root, Action& action);
 void addSimulateCommand(CLI::App& root, Action& action);
+void addStatsCommand(CLI::App& root, Action& action);
+void addAnalyzeCommand(CLI::App& root, Action& action);
+void addExportCommand(CLI::App& root, Action& action);
 void addEvaluateCommand(CLI::App& root, Action& action);
+
+// One export format: runs after parsing, returns whether its option was given.
+using ExportStep = std::function<bool(store::Project&)>;
+void addTrapsExportOption(CLI::App* exportCmd, std::vector<ExportStep>& steps);
 
 }  // namespace budledger::cli

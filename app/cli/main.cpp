@@ -22,6 +22,9 @@ int main(int argc, char** argv) {
   Action action;
   addSummaryCommand(app, action);
   addSimulateCommand(app, action);
+  addStatsCommand(app, action);
+  addAnalyzeCommand(app, action);
+  addExportCommand(app, action);
   addEvaluateCommand(app, action);
 
   try {

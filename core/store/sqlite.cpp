@@ -102,17 +102,20 @@ std::string Statement::text(int c) const {
 }
 bool Statement::isNull(int c) const { return sqlite3_column_type(stmt_, c) == SQLITE_NULL; }
 
-Transaction::Transaction(Database& db) : db_(db) { db_.exec("BEGIN IMMEDIATE"); }
+Transaction::Transaction(Database& db)
+    : db_(db), nested_(sqlite3_get_autocommit(db.handle()) == 0) {
+  db_.exec(nested_ ? "SAVEPOINT budledger_nested" : "BEGIN IMMEDIATE");
+}
 Transaction::~Transaction() {
   if (!done_) {
     try {
-      db_.exec("ROLLBACK");
+      db_.exec(nested_ ? "ROLLBACK TO budledger_nested; RELEASE budledger_nested" : "ROLLBACK");
     } catch (...) {
     }
   }
 }
 void Transaction::commit() {
-  db_.exec("COMMIT");
+  db_.exec(nested_ ? "RELEASE budledger_nested" : "COMMIT");
   done_ = true;
 }
 

@@ -75,6 +75,8 @@ class Statement {
 };
 
 // BEGIN IMMEDIATE on construction; ROLLBACK on destruction unless commit() ran.
+// Inside an open transaction it becomes a SAVEPOINT, so a caller can group
+// several Project writes (each transactional on its own) into one.
 class Transaction {
  public:
   explicit Transaction(Database& db);
@@ -86,6 +88,7 @@ class Transaction {
  private:
   Database& db_;
   bool done_ = false;
+  bool nested_ = false;
 };
 
 }  // namespace budledger::store

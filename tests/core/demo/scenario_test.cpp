@@ -1,6 +1,8 @@
 // Scenario files: defaults, the shipped scenarios, and clear errors for bad input.
 #include <gtest/gtest.h>
 
+#include <set>
+
 #include "core/base/error.h"
 #include "demo/scenario.h"
 
@@ -61,6 +63,25 @@ TEST(Scenario, BadInputIsNamed) {
             std::string::npos);
   EXPECT_EQ(errorOf("{}"), "");
   EXPECT_EQ(errorOf(R"({"frames": -3})").rfind("s.json: ", 0), 0u);  // names the file first
+}
+
+TEST(Scenario, PresetsAreValidAndHardOnesVary) {
+  std::set<std::string> shapes, polarities;
+  for (std::uint64_t seed = 1; seed <= 40; ++seed) {
+    for (auto d : {Difficulty::Easy, Difficulty::Normal, Difficulty::Hard}) {
+      const Scenario s = presetScenario(seed, d);
+      EXPECT_NO_THROW(validate(s, "preset")) << seed;
+      // What scenario.json records reads back as a valid scenario.
+      EXPECT_NO_THROW(scenarioFromJsonText(scenarioToJsonText(s), "preset.json")) << seed;
+    }
+    const Scenario h = presetScenario(seed, Difficulty::Hard);
+    shapes.insert(h.device.postShape);
+    polarities.insert(h.optics.polarity);
+    EXPECT_GE(h.device.pixelUm, 0.2);
+    EXPECT_LE(h.device.pixelUm, 0.35);
+  }
+  EXPECT_EQ(shapes.size(), 3u);
+  EXPECT_EQ(polarities.size(), 2u);
 }
 
 TEST(Scenario, ParameterTableListsEverySection) {
