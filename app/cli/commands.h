@@ -22,6 +22,7 @@ void addStatsCommand(CLI::App& root, Action& action);
 void addAnalyzeCommand(CLI::App& root, Action& action);
 void addExportCommand(CLI::App& root, Action& action);
 void addEvaluateCommand(CLI::App& root, Action& action);
+void addTrainCommand(CLI::App& root, Action& action);
 
 // One export format: runs after parsing, returns whether its option was given.
 using ExportStep = std::function<bool(store::Project&)>;

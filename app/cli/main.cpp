@@ -26,6 +26,7 @@ int main(int argc, char** argv) {
   addAnalyzeCommand(app, action);
   addExportCommand(app, action);
   addEvaluateCommand(app, action);
+  addTrainCommand(app, action);
 
   try {
     app.parse(argc, argv);

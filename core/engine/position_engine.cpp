@@ -129,6 +129,13 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   for (int i = 0; i < S; ++i)
     sampleFrames.push_back(goodFrames[static_cast<std::size_t>(
         (static_cast<long>(i) * static_cast<long>(goodFrames.size())) / std::max(1, S))]);
+  auto lap = [last = std::chrono::steady_clock::now()]() mutable {
+    const auto now = std::chrono::steady_clock::now();
+    const double s = std::chrono::duration<double>(now - last).count();
+    last = now;
+    return s;
+  };
+  nlohmann::json timing;
   progress("engine: background", 0.0);
   std::vector<std::vector<cv::Mat>> samples(N);
   parallelFor(N, options.threads, [&](std::size_t i) {
@@ -174,6 +181,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
     out.note = "no trap looked empty in any sampled frame: backgrounds are the lattice median "
                "of occupied traps, calls need review";
 
+  timing["calibration_s"] = lap();
   // 3. Cells, features and occupancy in every crop; evidence for the temporal model.
   progress("engine: cells", 0.1);
   measure::FeatureContext fctx;
@@ -235,6 +243,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
     ++done;
   });
 
+  timing["cells_s"] = lap();
   // 4. Events.
   progress("engine: events", 0.6);
   propose::ProposeOptions po = options.propose;
@@ -255,6 +264,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       {"morph_live_sigma", calls.emission.morphLiveSigma},
       {"morph_dead_mean", calls.emission.morphDeadMean}};
 
+  timing["events_s"] = lap();
   // 5. Records.
   progress("engine: records", 0.9);
   for (std::size_t i = 0; i < N; ++i) {
@@ -281,6 +291,8 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       out.measurements.push_back(std::move(m));
     }
   }
+  timing["records_s"] = lap();
+  out.calibration["timing"] = timing;
   if (options.keepFeatures) {
     out.features = std::move(features);
     out.evidence = std::move(evidence);

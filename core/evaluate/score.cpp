@@ -60,6 +60,8 @@ double latticePitch(const std::vector<TruthTrap>& traps) {
   return nn.empty() ? std::numeric_limits<double>::infinity() : median(nn);
 }
 
+}  // namespace
+
 // truth trap index -> engine trap index (or -1).
 std::vector<int> pairTraps(const std::vector<TruthTrap>& truth,
                            const std::vector<EngineTrap>& engine) {
@@ -105,6 +107,8 @@ std::vector<int> pairTraps(const std::vector<TruthTrap>& truth,
     }
   return pairOf;
 }
+
+namespace {
 
 struct Accumulator {
   Score s;
@@ -226,6 +230,10 @@ Score score(const Truth& truth, const std::vector<EnginePosition>& engine,
   };
   for (const TruthPosition& tp : truth.positions) {
     const EnginePosition* ep = findEngine(tp);
+    if (!ep && options.skipMissingPositions) {
+      acc.s.notes.push_back(fmt::format("position {}: not in the project, not scored", tp.name));
+      continue;
+    }
     if (!ep) acc.s.notes.push_back(fmt::format("position {}: not in the project", tp.name));
     const std::vector<EngineTrap> noTraps;
     const auto& eTraps = ep ? ep->traps : noTraps;

@@ -33,6 +33,9 @@ struct EnginePosition {
 
 struct ScoreOptions {
   int tolerance = 1;  // frames
+  // Truth positions the engine never saw: skipped with a note (true), or counted as
+  // entirely missed (false).
+  bool skipMissingPositions = true;
   std::vector<double> reliabilityEdges{0.0, 0.5, 0.7, 0.8, 0.9, 0.95, 0.99, 1.0};
 };
 
@@ -81,6 +84,10 @@ struct Score {
 
 Score score(const Truth& truth, const std::vector<EnginePosition>& engine,
             const ScoreOptions& options = {});
+
+// Pairs truth traps with engine traps (index into `engine` per truth trap, -1 when none):
+// nearest centre within half the pitch, after removing the median offset.
+std::vector<int> pairTraps(const std::vector<TruthTrap>& truth, const std::vector<EngineTrap>& engine);
 
 // Kaplan-Meier median of divisions: smallest d with S(d) <= 0.5, NaN if never.
 double kaplanMeierMedian(const std::vector<std::pair<int, bool>>& divisionsAndDied);

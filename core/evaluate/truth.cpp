@@ -2,6 +2,7 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <charconv>
 #include <filesystem>
 #include <fstream>
@@ -144,6 +145,46 @@ Truth readTruth(const std::string& folder) {
     truth.positions.push_back(std::move(p));
   }
   return truth;
+}
+
+std::vector<int> truthOccupancy(const TruthPosition& p, int trap) {
+  std::vector<int> out(static_cast<std::size_t>(std::max(0, p.frames)), kTruthEmpty);
+  auto set = [&](int from, int to, int value) {
+    for (int t = std::max(0, from); t <= std::min(p.frames - 1, to); ++t)
+      out[static_cast<std::size_t>(t)] = value;
+  };
+  for (const auto& t : p.tenures) {
+    if (t.trap != trap) continue;
+    set(t.firstFrame, t.lastFrame, kTruthSingle);
+    // A corpse stays until the next tenure or a flush the truth does not record.
+    if (t.died) {
+      int until = p.frames - 1;
+      for (const auto& n : p.tenures)
+        if (n.trap == trap && n.firstFrame > t.lastFrame) until = std::min(until, n.firstFrame - 1);
+      set(t.lastFrame, until, kTruthDead);
+    }
+  }
+  std::vector<TruthEvent> events;
+  for (const auto& e : p.events)
+    if (e.trap == trap) events.push_back(e);
+  std::sort(events.begin(), events.end(),
+            [](const TruthEvent& a, const TruthEvent& b) { return a.frame < b.frame; });
+  int budFrom = -1;
+  for (const auto& e : events) {
+    if (e.kind == EventKind::Bud) budFrom = e.frame;
+    if (e.kind == EventKind::Separation) {
+      // A bud present from before the first frame: budded from frame 0.
+      const int from = budFrom >= 0 ? budFrom : 0;
+      for (int t = from; t < e.frame && t < p.frames; ++t)
+        if (out[static_cast<std::size_t>(t)] == kTruthSingle) out[static_cast<std::size_t>(t)] = kTruthBudded;
+      budFrom = -1;
+    }
+    if (e.kind == EventKind::Death || e.kind == EventKind::Washout) budFrom = -1;
+  }
+  if (budFrom >= 0)
+    for (int t = budFrom; t < p.frames && out[static_cast<std::size_t>(t)] == kTruthSingle; ++t)
+      out[static_cast<std::size_t>(t)] = kTruthBudded;
+  return out;
 }
 
 }  // namespace budledger::evaluate

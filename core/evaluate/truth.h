@@ -54,4 +54,10 @@ struct Truth {
 
 Truth readTruth(const std::string& folder);
 
+// What a trap shows at each frame according to the truth: 0 empty, 1 a live mother
+// without a bud, 2 a live mother with a bud, -1 a dead mother (left out of training:
+// the temporal model, not the classifier, decides death).
+enum TruthOccupancy { kTruthDead = -1, kTruthEmpty = 0, kTruthSingle = 1, kTruthBudded = 2 };
+std::vector<int> truthOccupancy(const TruthPosition& position, int trap);
+
 }  // namespace budledger::evaluate

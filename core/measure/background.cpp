@@ -80,11 +80,18 @@ double emptyLimit(const std::vector<double>& knn, double floor, const Background
 cv::Mat normaliseCrop(const cv::Mat& crop) {
   cv::Mat f;
   crop.convertTo(f, CV_32F);
-  const cv::Mat border = borderMask(f.size(), 3);
+  // Every other pixel of the 3-pixel border: plenty for a median, at a fraction of the cost.
   std::vector<float> v;
-  for (int y = 0; y < f.rows; ++y)
-    for (int x = 0; x < f.cols; ++x)
-      if (border.at<uchar>(y, x)) v.push_back(f.at<float>(y, x));
+  v.reserve(static_cast<std::size_t>(3 * (f.rows + f.cols)));
+  for (int y = 0; y < f.rows; ++y) {
+    const float* row = f.ptr<float>(y);
+    if (y < 3 || y >= f.rows - 3) {
+      for (int x = y % 2; x < f.cols; x += 2) v.push_back(row[x]);
+    } else if (y % 2 == 0) {
+      for (int x = 0; x < std::min(3, f.cols); ++x) v.push_back(row[x]);
+      for (int x = std::max(0, f.cols - 3); x < f.cols; ++x) v.push_back(row[x]);
+    }
+  }
   if (v.empty()) return f;
   auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
   std::nth_element(v.begin(), mid, v.end());

@@ -12,6 +12,9 @@
 namespace budledger::measure {
 namespace {
 
+// Strong pixels a component needs to count: one noise excursion lights up only a few.
+constexpr int kMinStrong = 8;
+
 cv::Mat smoothedDifference(const cv::Mat& crop, const cv::Mat& background, double sigma) {
   cv::Mat diff;
   cv::subtract(crop, background, diff, cv::noArray(), CV_32F);
@@ -65,7 +68,6 @@ cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double thresho
   cv::Mat labels;
   const int n = cv::connectedComponents(mask, labels, 8, CV_32S);
   // A component needs several strong pixels: one noise excursion lights up only a few.
-  constexpr int kMinStrong = 8;
   std::vector<int> strongCount(static_cast<std::size_t>(n), 0);
   for (int y = 0; y < labels.rows; ++y) {
     const int* l = labels.ptr<int>(y);
@@ -427,6 +429,44 @@ cv::Mat cellIndexImage(const cv::Mat& labels, const std::vector<int>& cellOfLabe
   return out;
 }
 
+// Bounding box (grown by `margin`) of the outline-sign components that hold enough
+// strong pixels; empty when there are none.
+cv::Rect foregroundBox(const cv::Mat& diff, double sd, const SegmentParams& params, int margin) {
+  const double strongLevel = params.threshold * sd, weakLevel = 0.5 * params.threshold * sd;
+  cv::Mat weak(diff.size(), CV_8U, cv::Scalar(0));
+  bool anyStrong = false;
+  for (int y = 0; y < diff.rows; ++y) {
+    const float* d = diff.ptr<float>(y);
+    uchar* w = weak.ptr<uchar>(y);
+    for (int x = 0; x < diff.cols; ++x) {
+      const double v = params.polarity == 0 ? std::abs(d[x]) : params.polarity * d[x];
+      if (v > weakLevel) w[x] = v > strongLevel ? 2 : 1;
+      anyStrong = anyStrong || v > strongLevel;
+    }
+  }
+  if (!anyStrong) return {};
+  cv::Mat labels, stats, centroids;
+  const int n = cv::connectedComponentsWithStats(weak > 0, labels, stats, centroids, 8, CV_32S);
+  std::vector<int> strong(static_cast<std::size_t>(n), 0);
+  for (int y = 0; y < diff.rows; ++y) {
+    const int* l = labels.ptr<int>(y);
+    const uchar* w = weak.ptr<uchar>(y);
+    for (int x = 0; x < diff.cols; ++x)
+      if (w[x] == 2) ++strong[static_cast<std::size_t>(l[x])];
+  }
+  cv::Rect box;
+  for (int i = 1; i < n; ++i) {
+    if (strong[static_cast<std::size_t>(i)] < kMinStrong) continue;
+    const cv::Rect r(stats.at<int>(i, cv::CC_STAT_LEFT), stats.at<int>(i, cv::CC_STAT_TOP),
+                     stats.at<int>(i, cv::CC_STAT_WIDTH), stats.at<int>(i, cv::CC_STAT_HEIGHT));
+    box = box.area() ? (box | r) : r;
+  }
+  if (!box.area()) return {};
+  box -= cv::Point(margin, margin);
+  box += cv::Size(2 * margin, 2 * margin);
+  return box & cv::Rect(0, 0, diff.cols, diff.rows);
+}
+
 }  // namespace
 
 OutlineAreas outlineAreas(const cv::Mat& crop, const cv::Mat& background, double noiseSd,
@@ -465,32 +505,13 @@ double estimateNoise(const cv::Mat& crop, const cv::Mat& background, double smoo
   return std::max(1e-6, 1.4826 * static_cast<double>(*mid));
 }
 
-CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double noiseSd,
-                        const CropGeometry& geometry, const SegmentParams& params) {
+namespace {
+
+// Everything after the difference image, on a region of it (`geometry` in its
+// coordinates).
+CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& geometry,
+                          const SegmentParams& params) {
   CropReading out;
-  const double sd = std::max(noiseSd, 1e-6);
-  const cv::Mat diff = smoothedDifference(crop, background, params.smoothSigmaPx);
-  if (params.keepMask) out.difference = diff / sd;
-  {
-    // Segmentation-free presence: mean |difference| in the disk a mother would fill.
-    const double r = std::max(1.0, params.motherRadiusPx);
-    const int x0 = std::max(0, static_cast<int>(geometry.cupX - r)),
-              x1 = std::min(diff.cols - 1, static_cast<int>(geometry.cupX + r));
-    const int y0 = std::max(0, static_cast<int>(geometry.cupY - r)),
-              y1 = std::min(diff.rows - 1, static_cast<int>(geometry.cupY + r));
-    double sum = 0;
-    int count = 0;
-    for (int y = y0; y <= y1; ++y) {
-      const float* d = diff.ptr<float>(y);
-      for (int x = x0; x <= x1; ++x) {
-        const double dx = x - geometry.cupX, dy = y - geometry.cupY;
-        if (dx * dx + dy * dy > r * r) continue;
-        sum += std::abs(d[x]);
-        ++count;
-      }
-    }
-    out.cupStrength = count ? sum / count / sd : 0;
-  }
   cv::Mat mask = outlineMask(diff, sd, params.polarity, params.threshold);
   out.foregroundPx = cv::countNonZero(mask);
   if (out.foregroundPx == 0) {
@@ -571,6 +592,59 @@ CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double n
   }
   if (out.bud >= 0) out.cells[static_cast<std::size_t>(out.bud)].role = CellRole::Bud;
   return out;
+}
+
+}  // namespace
+
+CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double noiseSd,
+                        const CropGeometry& geometry, const SegmentParams& params) {
+  CropReading out;
+  const double sd = std::max(noiseSd, 1e-6);
+  const cv::Mat diff = smoothedDifference(crop, background, params.smoothSigmaPx);
+  if (params.keepMask) out.difference = diff / sd;
+  {
+    // Segmentation-free presence: mean |difference| in the disk a mother would fill.
+    const double r = std::max(1.0, params.motherRadiusPx);
+    const int x0 = std::max(0, static_cast<int>(geometry.cupX - r)),
+              x1 = std::min(diff.cols - 1, static_cast<int>(geometry.cupX + r));
+    const int y0 = std::max(0, static_cast<int>(geometry.cupY - r)),
+              y1 = std::min(diff.rows - 1, static_cast<int>(geometry.cupY + r));
+    double sum = 0;
+    int count = 0;
+    for (int y = y0; y <= y1; ++y) {
+      const float* d = diff.ptr<float>(y);
+      for (int x = x0; x <= x1; ++x) {
+        const double dx = x - geometry.cupX, dy = y - geometry.cupY;
+        if (dx * dx + dy * dy > r * r) continue;
+        sum += std::abs(d[x]);
+        ++count;
+      }
+    }
+    out.cupStrength = count ? sum / count / sd : 0;
+  }
+  // Work only where something stands out: the box around every component with enough
+  // strong pixels, with a margin for the morphology (most of a crop is empty medium).
+  const cv::Rect roi = foregroundBox(diff, sd, params, 6);
+  if (roi.area() == 0) {
+    if (params.keepMask) out.mask = cv::Mat(diff.size(), CV_16U, cv::Scalar(0));
+    return out;
+  }
+  CropGeometry local = geometry;
+  local.cupX -= roi.x;
+  local.cupY -= roi.y;
+  CropReading region = segmentRegion(diff(roi).clone(), sd, local, params);
+  region.cupStrength = out.cupStrength;
+  for (auto& cell : region.cells) {
+    cell.x += roi.x;
+    cell.y += roi.y;
+  }
+  if (params.keepMask) {
+    cv::Mat full(diff.size(), CV_16U, cv::Scalar(0));
+    if (!region.mask.empty()) region.mask.copyTo(full(roi));
+    region.mask = full;
+    region.difference = out.difference;
+  }
+  return region;
 }
 
 }  // namespace budledger::measure

@@ -48,23 +48,34 @@ EmissionParams EmissionParams::defaults(int m, int k) {
   return p;
 }
 
-std::array<double, kMorphCount> liveReference(const std::vector<TrapEvidence>& evidence,
-                                              const std::vector<std::vector<float>>& pLive) {
-  std::array<double, kMorphCount> ref{kMissing, kMissing, kMissing};
-  for (int j = 0; j < kMorphCount; ++j) {
-    std::vector<double> v;
-    for (std::size_t i = 0; i < evidence.size(); ++i)
-      for (std::size_t t = 0; t < evidence[i].size(); ++t) {
-        const double x = evidence[i][t].morph[static_cast<std::size_t>(j)];
-        if (evidence[i][t].informative && isKnown(x) && t < pLive[i].size() && pLive[i][t] > 0.5)
-          v.push_back(x);
-      }
-    if (v.empty()) continue;
+MorphBaseline liveReference(const std::vector<TrapEvidence>& evidence,
+                            const std::vector<std::vector<float>>& pLive) {
+  std::size_t T = 0;
+  for (const auto& e : evidence) T = std::max(T, e.size());
+  MorphBaseline out(T, {kMissing, kMissing, kMissing});
+  auto median = [](std::vector<double>& v) {
     auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
     std::nth_element(v.begin(), mid, v.end());
-    ref[static_cast<std::size_t>(j)] = *mid;
+    return *mid;
+  };
+  for (int j = 0; j < kMorphCount; ++j) {
+    const auto jj = static_cast<std::size_t>(j);
+    std::vector<double> all, frame;
+    std::vector<std::vector<double>> perFrame(T);
+    for (std::size_t i = 0; i < evidence.size(); ++i)
+      for (std::size_t t = 0; t < evidence[i].size(); ++t) {
+        const double x = evidence[i][t].morph[jj];
+        if (evidence[i][t].informative && isKnown(x) && t < pLive[i].size() && pLive[i][t] > 0.5) {
+          all.push_back(x);
+          perFrame[t].push_back(x);
+        }
+      }
+    if (all.empty()) continue;
+    const double global = median(all);
+    for (std::size_t t = 0; t < T; ++t)
+      out[t][jj] = perFrame[t].size() >= 5 ? median(perFrame[t]) : global;
   }
-  return ref;
+  return out;
 }
 
 MorphBaseline localBaseline(const TrapEvidence& ev, const std::vector<float>& pLive,

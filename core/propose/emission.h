@@ -59,10 +59,12 @@ struct EmissionParams {
 // A trap's morphology baseline per frame ([frames] x kMorphCount); NaN where none.
 using MorphBaseline = std::vector<std::array<double, kMorphCount>>;
 
-// The position's live reference: per feature, the median over every trap-frame with
-// P(live) > 1/2.
-std::array<double, kMorphCount> liveReference(const std::vector<TrapEvidence>& evidence,
-                                              const std::vector<std::vector<float>>& pLive);
+// The position's live reference per frame: per feature, the median over the traps whose
+// mother is alive (P(live) > 1/2) in that frame, so lamp flicker, focus and the
+// mothers' common ageing cancel; the median over all live trap-frames where fewer than
+// five traps are alive.
+MorphBaseline liveReference(const std::vector<TrapEvidence>& evidence,
+                            const std::vector<std::vector<float>>& pLive);
 
 // A trap's own local live baseline: averages of each feature over its other frames,
 // weighted by P(live) and by exp(-|dt| / window), so a mother growing with age keeps a

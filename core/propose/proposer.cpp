@@ -227,7 +227,9 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
   std::vector<MorphBaseline> baselines(n);
   auto updateBaselines = [&] {
     const auto ref = liveReference(evidence, pLive);
-    for (std::size_t i = 0; i < n; ++i) baselines[i].assign(evidence[i].size(), ref);
+    for (std::size_t i = 0; i < n; ++i)
+      baselines[i].assign(ref.begin(), ref.begin() + static_cast<std::ptrdiff_t>(
+                                                       std::min(ref.size(), evidence[i].size())));
   };
   updateBaselines();
   for (int j = 0; j < kMorphCount; ++j) {
