@@ -1,9 +1,9 @@
 // budledger-cli analyze STACK.tif|FOLDER... --project P.budledger — runs the
-// analysis stages that exist (ingest, drift, trap lattice; the engine's
-// per-frame stages plug into pipeline::analyzePosition) over every position
-// and writes them into the project. A new project is built in a temporary
-// file beside the target and renamed into place only when every position
-// succeeded; an existing project gets all positions in one transaction. On
+// analysis (ingest, drift, trap lattice, then the engine: measure, classify,
+// propose) over every position and writes them, with one engine run holding
+// every position's proposals and measurements, into the project. A new
+// project is built in a temporary file beside the target and renamed into
+// place only when every position succeeded; an existing project gets all positions in one transaction. On
 // failure nothing is left behind either way.
 #include <fmt/format.h>
 #include <unistd.h>
@@ -22,6 +22,8 @@
 #include "core/base/error.h"
 #include "core/io/frame_source.h"
 #include "core/io/image_folder.h"
+#include "core/engine/engine_stage.h"
+#include "core/measure/occupancy.h"
 #include "core/pipeline/analyze.h"
 #include "core/store/project.h"
 #include "core/traps/traps_csv.h"
@@ -110,8 +112,9 @@ int runAnalyze(const AnalyzeArgs& args) {
     options.suppliedTraps = &*supplied;
     options.suppliedTrapsFile = args.traps;
   }
-  // The engine's per-frame stages (measure, classify, propose) are added here.
-  std::vector<pipeline::FrameStage*> stages;
+  // The engine (measure, classify, propose) sees every frame's crops.
+  engine::EngineStage engineStage(engine::EngineOptions{}, measure::OccupancyModel::builtIn());
+  std::vector<pipeline::FrameStage*> stages{&engineStage};
 
   const std::filesystem::path target(args.project);
   const bool existing = std::filesystem::exists(target);
@@ -139,9 +142,18 @@ int runAnalyze(const AnalyzeArgs& args) {
         report(fmt::format("{}: {}", label, stage), f);
       };
       options.positionName = p.name;
+      engineStage.setProgress(sink);
       const auto a = pipeline::analyzePosition(project, *p.source, options, sink, stages);
       lines.push_back(describe(a));
+      const auto& outcome = engineStage.outcomes().back();
+      lines.push_back(fmt::format("{}: engine {:.2f} s, {} events proposed, {} trap{} flagged for review{}{}",
+                                  p.name, outcome.result.seconds, outcome.result.events.size(),
+                                  outcome.result.flags.size(),
+                                  outcome.result.flags.size() == 1 ? "" : "s",
+                                  outcome.result.note.empty() ? "" : "; ", outcome.result.note));
     }
+    const auto run = engineStage.writeRun(project);
+    lines.push_back(fmt::format("engine run {} stored", run));
     all.commit();
   } catch (...) {
     if (!existing) removeProjectFiles(building);

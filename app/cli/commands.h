@@ -28,5 +28,7 @@ void addSignoffCommand(CLI::App& root, Action& action);
 void addUndoCommand(CLI::App& root, Action& action);
 void addRedoCommand(CLI::App& root, Action& action);
 void addMergeCommand(CLI::App& root, Action& action);
+void addEvaluateCommand(CLI::App& root, Action& action);
+void addTrainCommand(CLI::App& root, Action& action);
 
 }  // namespace budledger::cli

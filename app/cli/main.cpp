@@ -32,6 +32,8 @@ int main(int argc, char** argv) {
   addRedoCommand(app, action);
   addMergeCommand(app, action);
   addExportCommand(app, action);
+  addEvaluateCommand(app, action);
+  addTrainCommand(app, action);
 
   try {
     app.parse(argc, argv);
