@@ -3,52 +3,176 @@
 #include <QAction>
 #include <QApplication>
 #include <QCloseEvent>
+#include <QComboBox>
 #include <QDockWidget>
 #include <QFileDialog>
 #include <QFileInfo>
-#include <QHeaderView>
 #include <QKeySequence>
 #include <QLabel>
 #include <QMenuBar>
 #include <QMessageBox>
 #include <QStatusBar>
-#include <QTreeWidget>
+#include <QTreeView>
 
 #include "budledger/version.h"
-#include "core/export/summary.h"
+#include "ui/counted.h"
+#include "ui/levels_bar.h"
 #include "ui/recent_projects.h"
+#include "ui/results_panel.h"
+#include "ui/review_queue_panel.h"
+#include "ui/shortcuts_dialog.h"
+#include "ui/strip_workspace.h"
+#include "ui/survival_model.h"
+#include "ui/survival_plot.h"
+#include "ui/time_strip_view.h"
+#include "ui/trap_image_view.h"
+#include "ui/trap_list_panel.h"
 
 namespace budledger::ui {
 
-MainWindow::MainWindow(QSettings& settings, QWidget* parent)
-    : QMainWindow(parent), settings_(settings) {
+namespace {
+constexpr int kStatusMs = 8000;
+
+// Commands that act wherever the focus is in the window; the rest act on the strips.
+bool windowWide(Command c) {
+  switch (c) {
+    case Command::Undo:
+    case Command::Redo:
+    case Command::NextQueueItem:
+    case Command::PreviousQueueItem:
+    case Command::ZoomIn:
+    case Command::ZoomOut:
+    case Command::ZoomFit:
+    case Command::ZoomCrops:
+    case Command::AutoLevels:
+      return true;
+    default:
+      return false;
+  }
+}
+
+bool isEdit(Command c) { return KeyMap::info(c).group == CommandGroup::Edit; }
+}  // namespace
+
+MainWindow::MainWindow(QSettings& settings, MainWindowOptions options, QWidget* parent)
+    : QMainWindow(parent), settings_(settings), options_(std::move(options)), keyMap_(settings) {
   setWindowTitle(tr("BudLedger"));
   setWindowIcon(QIcon(QStringLiteral(":/icons/budledger.svg")));
-
-  trapList_ = new QTreeWidget(this);
-  trapList_->setObjectName(QStringLiteral("trapList"));
-  trapList_->setHeaderLabels({tr("Trap"), tr("Row"), tr("Col")});
-  trapList_->header()->setSectionResizeMode(QHeaderView::ResizeToContents);
-  auto* dock = new QDockWidget(tr("Traps"), this);
-  dock->setObjectName(QStringLiteral("trapDock"));
-  dock->setWidget(trapList_);
-  addDockWidget(Qt::LeftDockWidgetArea, dock);
-
-  central_ = new QLabel(this);
-  central_->setObjectName(QStringLiteral("emptyState"));
-  central_->setAlignment(Qt::AlignCenter);
-  central_->setWordWrap(true);
-  central_->setText(tr("No project open.\nFile → Open project… (Ctrl+O) opens a .budledger file."));
-  setCentralWidget(central_);
-
+  workspace_ = new StripWorkspace(this);
+  setCentralWidget(workspace_);
+  buildDocks();
+  buildActions();
   buildMenus();
+  applyKeys();
+  connect(&keyMap_, &KeyMap::changed, this, &MainWindow::applyKeys);
+
+  TimeStripView* s = strips();
+  connect(s, &TimeStripView::cursorChanged, this, &MainWindow::onCursorChanged);
+  connect(workspace_, &StripWorkspace::zoomInClicked, this, [this] { run(Command::ZoomIn); });
+  connect(workspace_, &StripWorkspace::zoomOutClicked, this, [this] { run(Command::ZoomOut); });
+  connect(workspace_, &StripWorkspace::zoomFitClicked, this, [this] { run(Command::ZoomFit); });
+  connect(workspace_, &StripWorkspace::zoomCropsClicked, this, [this] { run(Command::ZoomCrops); });
+  connect(workspace_->levels(), &LevelsBar::levelsChanged, this, [this](const DisplayLevels& lv) {
+    if (loader_) loader_->setLevels(lv);
+    strips()->viewport()->update();
+    trapImage_->update();
+  });
+  connect(workspace_->levels(), &LevelsBar::autoRequested, this, &MainWindow::autoLevels);
+  connect(workspace_->positions(), &QComboBox::activated, this,
+          [this](int index) { showPosition(workspace_->positions()->itemData(index).toInt()); });
+
+  cursorLabel_ = new QLabel(this);
+  cursorLabel_->setObjectName(QStringLiteral("cursorLabel"));
+  statusBar()->addPermanentWidget(cursorLabel_);
   statusBar()->showMessage(tr("Ready"));
   resize(1280, 800);
   restoreGeometry(settings_.value(QStringLiteral("mainWindow/geometry")).toByteArray());
   restoreState(settings_.value(QStringLiteral("mainWindow/state")).toByteArray());
+  updateEditability();
 }
 
-MainWindow::~MainWindow() = default;
+MainWindow::~MainWindow() {
+  // Views hold raw pointers to the session and loader: detach them first.
+  closeProject();
+}
+
+TimeStripView* MainWindow::strips() const { return workspace_->strips(); }
+
+QAction* MainWindow::action(Command c) const {
+  auto it = actions_.find(c);
+  return it == actions_.end() ? nullptr : it->second;
+}
+
+void MainWindow::buildDocks() {
+  trapPanel_ = new TrapListPanel(this);
+  trapPanel_->setMinimumWidth(340);
+  auto* trapDock = new QDockWidget(tr("Traps"), this);
+  trapDock->setObjectName(QStringLiteral("trapDock"));
+  trapDock->setWidget(trapPanel_);
+  addDockWidget(Qt::LeftDockWidgetArea, trapDock);
+
+  queuePanel_ = new ReviewQueuePanel(this);
+  auto* queueDock = new QDockWidget(tr("Review queue"), this);
+  queueDock->setObjectName(QStringLiteral("queueDock"));
+  queueDock->setWidget(queuePanel_);
+  addDockWidget(Qt::LeftDockWidgetArea, queueDock);
+  tabifyDockWidget(trapDock, queueDock);
+  trapDock->raise();
+
+  trapImage_ = new TrapImageView(this);
+  auto* imageDock = new QDockWidget(tr("Current trap"), this);
+  imageDock->setObjectName(QStringLiteral("imageDock"));
+  imageDock->setWidget(trapImage_);
+  addDockWidget(Qt::RightDockWidgetArea, imageDock);
+
+  results_ = new ResultsPanel(this);
+  auto* resultsDock = new QDockWidget(tr("Results"), this);
+  resultsDock->setObjectName(QStringLiteral("resultsDock"));
+  resultsDock->setWidget(results_);
+  addDockWidget(Qt::RightDockWidgetArea, resultsDock);
+
+  survival_ = new SurvivalModel(this);
+  survivalPlot_ = new SurvivalPlot(this);
+  auto* survivalDock = new QDockWidget(tr("Survival by group"), this);
+  survivalDock->setObjectName(QStringLiteral("survivalDock"));
+  survivalDock->setWidget(survivalPlot_);
+  addDockWidget(Qt::RightDockWidgetArea, survivalDock);
+  connect(survival_, &SurvivalModel::changed, this, [this] {
+    survivalPlot_->setCurves(survival_->curves());
+    survivalPlot_->setNote(survival_->comparison());
+  });
+
+  connect(trapPanel_, &TrapListPanel::trapChosen, this, [this](TrapId t) {
+    goToTrap(t, std::nullopt);
+    strips()->setFocus();
+  });
+  connect(queuePanel_, &ReviewQueuePanel::itemChosen, this, [this](const ReviewItem& item) {
+    goToTrap(item.trap, item.frame);
+    strips()->selectEvent(item.eventId);
+    say(tr("Review: trap %1, frame %2 — %3").arg(item.trap.trap).arg(item.frame).arg(item.why));
+    strips()->setFocus();
+  });
+}
+
+void MainWindow::buildActions() {
+  for (const auto& info : KeyMap::commands()) {
+    auto* a = new QAction(info.title, this);
+    a->setObjectName(QString::fromLatin1(info.id));
+    a->setShortcutContext(windowWide(info.command) ? Qt::WindowShortcut
+                                                   : Qt::WidgetWithChildrenShortcut);
+    const Command c = info.command;
+    connect(a, &QAction::triggered, this, [this, c] { run(c); });
+    if (windowWide(c))
+      addAction(a);
+    else
+      workspace_->addAction(a);
+    actions_[c] = a;
+  }
+}
+
+void MainWindow::applyKeys() {
+  for (auto& [c, a] : actions_) a->setShortcuts(keyMap_.keys(c));
+}
 
 void MainWindow::buildMenus() {
   QMenu* file = menuBar()->addMenu(tr("&File"));
@@ -63,6 +187,18 @@ void MainWindow::buildMenus() {
   file->addSeparator();
   QAction* quit = file->addAction(tr("&Quit"), this, &QWidget::close);
   quit->setShortcut(QKeySequence::Quit);
+
+  auto addGroup = [this](QMenu* menu, CommandGroup g) {
+    for (const auto& info : KeyMap::commands())
+      if (info.group == g) menu->addAction(actions_[info.command]);
+  };
+  addGroup(menuBar()->addMenu(tr("&Edit")), CommandGroup::Edit);
+  QMenu* nav = menuBar()->addMenu(tr("&Navigate"));
+  addGroup(nav, CommandGroup::Navigate);
+  viewMenu_ = menuBar()->addMenu(tr("&View"));
+  addGroup(viewMenu_, CommandGroup::View);
+  viewMenu_->addSeparator();
+  for (QDockWidget* d : findChildren<QDockWidget*>()) viewMenu_->addAction(d->toggleViewAction());
 
   QMenu* help = menuBar()->addMenu(tr("&Help"));
   QAction* keys = help->addAction(tr("&Keyboard shortcuts"), this, &MainWindow::showShortcuts);
@@ -80,37 +216,207 @@ void MainWindow::rebuildRecentMenu() {
   recentMenu_->setEnabled(!paths.isEmpty());
 }
 
+void MainWindow::closeProject() {
+  strips()->setSession(nullptr);
+  strips()->setLoader(nullptr);
+  trapImage_->setSession(nullptr);
+  trapImage_->setLoader(nullptr);
+  results_->setSession(nullptr);
+  survival_->setSession(nullptr);
+  queuePanel_->model()->setSession(nullptr);
+  trapPanel_->setSession(nullptr, nullptr);
+  loader_.reset();
+  session_.reset();
+}
+
 std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) {
+  std::unique_ptr<ReviewSession> session;
+  std::shared_ptr<const CropSource> source;
   try {
-    auto project = std::make_unique<store::Project>(store::Project::open(path.toStdString()));
-    project_ = std::move(project);
+    session = std::make_unique<ReviewSession>(path, store::Database::Access::ReadWrite);
+    if (options_.cropSources) source = options_.cropSources(*session);
   } catch (const std::exception& e) {
     const QString why = QString::fromStdString(e.what());
     if (!quiet) QMessageBox::critical(this, tr("Cannot open project"), why);
-    statusBar()->showMessage(tr("Could not open %1").arg(path));
+    say(tr("Could not open %1").arg(path));
     return why;
   }
+  closeProject();
+  session_ = std::move(session);
+  if (source) {
+    loader_ = std::make_unique<ThumbnailLoader>(source, options_.thumbnails);
+    loader_->setLevels(workspace_->levels()->levels());
+    connect(loader_.get(), &ThumbnailLoader::failed, this,
+            [this](const QString& why) { say(tr("Cannot read images: %1").arg(why)); });
+  }
+  if (loader_ && !session_->allTraps().empty()) {
+    // Start from auto levels on the first trap: raw microscope data is rarely full-scale.
+    try {
+      const DisplayLevels lv = ui::autoLevels(source->crop(session_->allTraps().front(), 0));
+      workspace_->levels()->setLevels(lv);
+      loader_->setLevels(lv);
+    } catch (const std::exception& e) {
+      say(tr("Cannot read images: %1").arg(QString::fromStdString(e.what())));
+    }
+  }
+  strips()->setSession(session_.get());
+  strips()->setLoader(loader_.get());
+  strips()->setEditable(!session_->readOnly());
+  trapImage_->setSession(session_.get());
+  trapImage_->setLoader(loader_.get());
+  results_->setSession(session_.get());
+  survival_->setSession(session_.get());
+  queuePanel_->model()->setSession(session_.get());
+  trapPanel_->setSession(session_.get(), queuePanel_->model());
+
+  auto* combo = workspace_->positions();
+  combo->clear();
+  for (const auto& p : session_->positions())
+    combo->addItem(
+        tr("%1 (%2)").arg(QString::fromStdString(p.name), QString::fromStdString(p.group)), p.id);
+  if (!session_->positions().empty()) showPosition(session_->positions().front().id);
+  workspace_->showBanner(session_->readOnly()
+                             ? tr("Read-only: another BudLedger holds this project. You can look "
+                                  "but not edit; close it there to edit here.")
+                             : QString());
+  setWindowTitle(tr("%1 — BudLedger").arg(QFileInfo(path).fileName()));
   RecentProjects(settings_).add(path);
   rebuildRecentMenu();
-  showProject();
-  statusBar()->showMessage(tr("Opened %1").arg(QFileInfo(path).fileName()));
+  updateEditability();
+  say(tr("Opened %1: %2")
+          .arg(QFileInfo(path).fileName(), counted(static_cast<long>(session_->allTraps().size()),
+                                                   tr("%1 trap"), tr("%1 traps"))));
+  strips()->setFocus();
   return std::nullopt;
 }
 
-void MainWindow::showProject() {
-  setWindowTitle(
-      tr("%1 — BudLedger").arg(QFileInfo(QString::fromStdString(project_->path())).fileName()));
-  trapList_->clear();
-  for (const auto& pos : project_->positions()) {
-    auto* posItem = new QTreeWidgetItem(trapList_, {QString::fromStdString(pos.name)});
-    for (const auto& t : project_->traps(pos.id))
-      new QTreeWidgetItem(
-          posItem, {tr("trap %1").arg(t.trap), QString::number(t.row), QString::number(t.col)});
-    posItem->setExpanded(true);
-  }
-  central_->setText(QString::fromStdString(exporting::projectSummary(*project_)));
-  central_->setAlignment(Qt::AlignLeft | Qt::AlignTop);
+void MainWindow::updateEditability() {
+  // Editing needs the journal of core/store; until a session can record edits, they stay off.
+  const bool canEdit = false;
+  for (auto& [c, a] : actions_)
+    if (isEdit(c)) a->setEnabled(canEdit);
 }
+
+void MainWindow::showPosition(int position) {
+  if (!session_) return;
+  std::vector<TrapId> lanes;
+  for (const auto& t : session_->traps(position)) lanes.push_back({position, t.trap});
+  strips()->setLanes(position, std::move(lanes));
+  auto* combo = workspace_->positions();
+  combo->setCurrentIndex(combo->findData(position));
+}
+
+void MainWindow::goToTrap(TrapId trap, std::optional<int> frame) {
+  if (strips()->position() != trap.position) showPosition(trap.position);
+  strips()->goToTrap(trap, frame);
+}
+
+void MainWindow::onCursorChanged(TrapId trap, int frame) {
+  trapImage_->showFrame(trap, frame);
+  results_->showTrap(trap);
+  trapPanel_->showCurrent(trap);
+  const QString clock = strips()->axis().clockLabel(frame);
+  QString text = clock.isEmpty()
+                     ? tr("trap %1 · frame %2").arg(trap.trap).arg(frame)
+                     : tr("trap %1 · frame %2 · %3").arg(trap.trap).arg(frame).arg(clock);
+  if (const ReviewEvent* e = strips()->eventAtCursor())
+    text += tr(" · %1 %2").arg(kindName(e->event.kind), decisionName(e->decision));
+  cursorLabel_->setText(text);
+}
+
+void MainWindow::run(Command c) {
+  TimeStripView* s = strips();
+  switch (c) {
+    case Command::NextFrame:
+      s->moveFrames(1);
+      break;
+    case Command::PreviousFrame:
+      s->moveFrames(-1);
+      break;
+    case Command::NextFrameFast:
+      s->moveFrames(10);
+      break;
+    case Command::PreviousFrameFast:
+      s->moveFrames(-10);
+      break;
+    case Command::FirstFrame:
+      s->setCursor(s->cursorLane(), 0);
+      break;
+    case Command::LastFrame:
+      s->setCursor(s->cursorLane(), s->axis().frameCount() - 1);
+      break;
+    case Command::NextEvent:
+      if (!s->jumpToEvent(+1)) say(tr("No later event in this trap"));
+      break;
+    case Command::PreviousEvent:
+      if (!s->jumpToEvent(-1)) say(tr("No earlier event in this trap"));
+      break;
+    case Command::NextOpenEvent:
+      if (!s->jumpToEvent(+1, true)) say(tr("No later undecided event in this trap"));
+      break;
+    case Command::PreviousOpenEvent:
+      if (!s->jumpToEvent(-1, true)) say(tr("No earlier undecided event in this trap"));
+      break;
+    case Command::LaneUp:
+      s->moveLanes(-1);
+      break;
+    case Command::LaneDown:
+      s->moveLanes(1);
+      break;
+    case Command::PageUp:
+      s->moveLanes(-5);
+      break;
+    case Command::PageDown:
+      s->moveLanes(5);
+      break;
+    case Command::NextQueueItem:
+      if (!queuePanel_->step(+1)) say(tr("Nothing left in the review queue"));
+      break;
+    case Command::PreviousQueueItem:
+      if (!queuePanel_->step(-1)) say(tr("Nothing left in the review queue"));
+      break;
+    case Command::ZoomIn:
+      s->zoomBy(1.5);
+      break;
+    case Command::ZoomOut:
+      s->zoomBy(1 / 1.5);
+      break;
+    case Command::ZoomFit:
+      s->zoomToFit();
+      break;
+    case Command::ZoomCrops:
+      s->zoomToCrops();
+      break;
+    case Command::AutoLevels:
+      autoLevels();
+      break;
+    default:
+      if (isEdit(c)) say(tr("Editing is not available in this build"));
+      break;
+  }
+  if (!isEdit(c) && c != Command::NextQueueItem && c != Command::PreviousQueueItem)
+    if (auto t = s->currentTrap()) onCursorChanged(*t, s->cursorFrame());
+}
+
+void MainWindow::autoLevels() {
+  auto t = strips()->currentTrap();
+  if (!loader_ || !t) {
+    say(tr("Auto levels needs images"));
+    return;
+  }
+  try {
+    const DisplayLevels lv = ui::autoLevels(loader_->source()->crop(*t, strips()->cursorFrame()));
+    workspace_->levels()->setLevels(lv);
+    loader_->setLevels(lv);
+    strips()->viewport()->update();
+    trapImage_->update();
+    say(tr("Levels set from trap %1, frame %2").arg(t->trap).arg(strips()->cursorFrame()));
+  } catch (const std::exception& e) {
+    QMessageBox::warning(this, tr("Cannot read images"), QString::fromStdString(e.what()));
+  }
+}
+
+void MainWindow::say(const QString& message) { statusBar()->showMessage(message, kStatusMs); }
 
 void MainWindow::chooseProjectToOpen() {
   const QString path = QFileDialog::getOpenFileName(
@@ -119,8 +425,8 @@ void MainWindow::chooseProjectToOpen() {
 }
 
 void MainWindow::showShortcuts() {
-  QMessageBox::information(this, tr("Keyboard shortcuts"),
-                           tr("Ctrl+O  Open project\nCtrl+Q  Quit\nF1  This list"));
+  ShortcutsDialog dialog(keyMap_, this);
+  dialog.exec();
 }
 
 void MainWindow::showAbout() {

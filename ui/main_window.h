@@ -1,50 +1,109 @@
 #pragma once
-// MainWindow: the workstation's shell — menus, the trap list dock, the central
-// area for time strips and the status bar. It owns the open Project; views
-// read from it and edits go through core/store only. Geometry and recent
-// projects persist in QSettings.
+// MainWindow: the workstation's shell. It owns the open ReviewSession, the
+// thumbnail loader and the key map, builds menus and docks, and routes each
+// keyboard command to the view or panel that carries it out. Views read from
+// the session; edits go through core/store only. Geometry, recent projects
+// and keys persist in QSettings.
 #include <QMainWindow>
 #include <QSettings>
+#include <functional>
+#include <map>
 #include <memory>
 #include <optional>
 
-#include "core/store/project.h"
+#include "ui/crop_source.h"
+#include "ui/key_map.h"
+#include "ui/review_priority.h"
+#include "ui/review_session.h"
+#include "ui/thumbnail_loader.h"
 
 class QLabel;
 class QMenu;
-class QTreeWidget;
 
 namespace budledger::ui {
+
+class ResultsPanel;
+class ReviewQueuePanel;
+class StripWorkspace;
+class SurvivalModel;
+class SurvivalPlot;
+class TimeStripView;
+class TrapImageView;
+class TrapListPanel;
+
+// Where pictures come from for an opened project (null: none available).
+using CropSourceFactory = std::function<std::shared_ptr<const CropSource>(ReviewSession&)>;
+
+struct MainWindowOptions {
+  CropSourceFactory cropSources;
+  ThumbnailLoaderOptions thumbnails;
+};
 
 class MainWindow : public QMainWindow {
   Q_OBJECT
 
  public:
-  explicit MainWindow(QSettings& settings, QWidget* parent = nullptr);
+  explicit MainWindow(QSettings& settings, MainWindowOptions options = {},
+                      QWidget* parent = nullptr);
   ~MainWindow() override;
 
   // Opens a project; on failure returns the reason (and shows it in a dialog
   // unless `quiet`). Never leaves a half-open project behind.
   std::optional<QString> openProject(const QString& path, bool quiet = false);
-  bool hasProject() const { return project_ != nullptr; }
-  store::Project* project() const { return project_.get(); }
+  bool hasProject() const { return session_ != nullptr; }
+  ReviewSession* session() const { return session_.get(); }
+  store::Project* project() const { return session_ ? &session_->project() : nullptr; }
+
+  TimeStripView* strips() const;
+  StripWorkspace* workspace() const { return workspace_; }
+  TrapListPanel* trapPanel() const { return trapPanel_; }
+  ReviewQueuePanel* queuePanel() const { return queuePanel_; }
+  ResultsPanel* resultsPanel() const { return results_; }
+  TrapImageView* trapImage() const { return trapImage_; }
+  SurvivalModel* survival() const { return survival_; }
+  SurvivalPlot* survivalPlot() const { return survivalPlot_; }
+  ThumbnailLoader* loader() const { return loader_.get(); }
+  KeyMap& keyMap() { return keyMap_; }
+  QAction* action(Command c) const;
+  // Carries out a command as its key would.
+  void run(Command c);
 
  protected:
   void closeEvent(QCloseEvent* event) override;
 
  private:
+  void buildActions();
   void buildMenus();
+  void buildDocks();
+  void applyKeys();
   void rebuildRecentMenu();
-  void showProject();
+  void closeProject();
+  void showPosition(int position);
+  void goToTrap(TrapId trap, std::optional<int> frame);
+  void onCursorChanged(TrapId trap, int frame);
+  void autoLevels();
   void chooseProjectToOpen();
   void showShortcuts();
   void showAbout();
+  void say(const QString& message);
+  void updateEditability();
 
   QSettings& settings_;
-  std::unique_ptr<store::Project> project_;
-  QTreeWidget* trapList_ = nullptr;
-  QLabel* central_ = nullptr;
+  MainWindowOptions options_;
+  KeyMap keyMap_;
+  std::unique_ptr<ReviewSession> session_;
+  std::unique_ptr<ThumbnailLoader> loader_;
+  std::map<Command, QAction*> actions_;
+  StripWorkspace* workspace_ = nullptr;
+  TrapListPanel* trapPanel_ = nullptr;
+  ReviewQueuePanel* queuePanel_ = nullptr;
+  ResultsPanel* results_ = nullptr;
+  TrapImageView* trapImage_ = nullptr;
+  SurvivalModel* survival_ = nullptr;
+  SurvivalPlot* survivalPlot_ = nullptr;
+  QLabel* cursorLabel_ = nullptr;
   QMenu* recentMenu_ = nullptr;
+  QMenu* viewMenu_ = nullptr;
 };
 
 }  // namespace budledger::ui

@@ -1,0 +1,125 @@
+// ui-screenshots OUTDIR [SUFFIX]: renders the workstation's main views with
+// QWidget::grab for the user guide. It writes a made-up project (test
+// support), opens it in the real MainWindow with synthetic crops, drives it
+// with the same commands the keys run, and saves one PNG per view. Run it
+// through docs/screenshots/make-screenshots.sh (100% and 200% scale).
+#include <QApplication>
+#include <QDir>
+#include <QDockWidget>
+#include <QFile>
+#include <QScreen>
+#include <QSettings>
+#include <QTemporaryDir>
+#include <QTimer>
+#include <cstdio>
+
+#include "demo_project.h"
+#include "synthetic_crops.h"
+#include "ui/main_window.h"
+#include "ui/review_queue_panel.h"
+#include "ui/shortcuts_dialog.h"
+#include "ui/strip_workspace.h"
+#include "ui/survival_plot.h"
+#include "ui/time_strip_view.h"
+#include "ui/trap_image_view.h"
+
+using namespace budledger;
+
+namespace {
+
+QString gSuffix;  // "" at 100%, "@2x" at 200%
+
+bool save(QWidget* w, const QString& dir, const QString& name) {
+  const QString path = QDir(dir).filePath(name + gSuffix + QStringLiteral(".png"));
+  const bool ok = w->grab().save(path, "PNG");
+  std::fprintf(ok ? stdout : stderr, "%s %s\n", ok ? "wrote" : "cannot write",
+               path.toLocal8Bit().constData());
+  return ok;
+}
+
+void settle() {
+  for (int i = 0; i < 5; ++i) QApplication::processEvents();
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  QApplication app(argc, argv);
+  if (argc < 2) {
+    std::fprintf(stderr, "usage: ui-screenshots OUTDIR [SUFFIX]\n");
+    return 2;
+  }
+  const QString out = QString::fromLocal8Bit(argv[1]);
+  if (argc > 2) gSuffix = QString::fromLocal8Bit(argv[2]);
+  QDir().mkpath(out);
+  QFile style(QStringLiteral(":/style/workstation.qss"));
+  if (style.open(QIODevice::ReadOnly)) app.setStyleSheet(QString::fromUtf8(style.readAll()));
+
+  QTemporaryDir tmp;
+  const QString project = tmp.filePath(QStringLiteral("demo.budledger"));
+  testsupport::DemoOptions demo;
+  demo.positions = 2;
+  demo.rows = 4;
+  demo.cols = 6;
+  demo.frames = 240;
+  const auto events = testsupport::writeDemoProject(project, demo);
+  auto crops = std::make_shared<testsupport::SyntheticCrops>(events);
+
+  QSettings settings(tmp.filePath(QStringLiteral("settings.ini")), QSettings::IniFormat);
+  ui::MainWindowOptions options;
+  options.cropSources = [crops](ui::ReviewSession&) { return crops; };
+  ui::MainWindow w(settings, options);
+  w.resize(1600, 1000);
+  w.show();
+  if (auto err = w.openProject(project, true)) {
+    std::fprintf(stderr, "cannot open demo project: %s\n", err->toLocal8Bit().constData());
+    return 1;
+  }
+  ui::TimeStripView* strips = w.strips();
+  auto waitImages = [&] {
+    for (int i = 0; i < 4; ++i) {
+      settle();
+      strips->viewport()->repaint();
+      w.trapImage()->repaint();
+      if (w.loader()) w.loader()->waitForIdle();
+    }
+    settle();
+  };
+  bool ok = true;
+
+  // 1. The workstation with crops at full size, cursor on an event.
+  w.run(ui::Command::ZoomCrops);
+  strips->setCursor(1, 30);
+  w.run(ui::Command::NextEvent);
+  waitImages();
+  ok &= save(&w, out, QStringLiteral("workstation"));
+
+  // 2. The compact kymograph view: the whole movie at once.
+  w.run(ui::Command::ZoomFit);
+  strips->setCursor(2, 120);
+  waitImages();
+  ok &= save(w.workspace(), out, QStringLiteral("strips-compact"));
+
+  // 3. Crops zoomed in on a few frames.
+  w.run(ui::Command::ZoomCrops);
+  w.run(ui::Command::ZoomIn);
+  strips->setCursor(0, 40);
+  w.run(ui::Command::NextEvent);
+  waitImages();
+  ok &= save(w.workspace(), out, QStringLiteral("strips-crops"));
+
+  // 4. The review queue and the large trap view after walking the queue.
+  w.queuePanel()->parentWidget()->raise();  // its dock shares a tab with the trap list
+  w.run(ui::Command::NextQueueItem);
+  waitImages();
+  ok &= save(w.queuePanel(), out, QStringLiteral("review-queue"));
+  ok &= save(w.trapImage(), out, QStringLiteral("trap-view"));
+
+  // 5. Keyboard shortcuts dialog.
+  ui::ShortcutsDialog keys(w.keyMap(), &w);
+  keys.show();
+  settle();
+  ok &= save(&keys, out, QStringLiteral("shortcuts"));
+  keys.hide();
+  return ok ? 0 : 1;
+}

@@ -1,0 +1,56 @@
+#pragma once
+// TrapImageView: the current trap at the current frame, large, with the cells
+// the engine measured outlined and its reading of the frame (occupancy,
+// probability, cell count) captioned. The picture comes through the shared
+// ThumbnailLoader at native crop size (so it is made off the UI thread and
+// shares the cache and display levels with the strips); upscaling uses
+// nearest neighbour so a proofreader sees real pixels.
+#include <QPolygonF>
+#include <QWidget>
+#include <optional>
+#include <vector>
+
+#include "ui/review_session.h"
+#include "ui/thumbnail_loader.h"
+
+namespace budledger::ui {
+
+// One measured cell, in crop pixel coordinates.
+struct CellOutline {
+  enum class Role { Mother, Bud, Other };
+  QPolygonF outline;
+  Role role = Role::Other;
+};
+
+class TrapImageView : public QWidget {
+  Q_OBJECT
+
+ public:
+  explicit TrapImageView(QWidget* parent = nullptr);
+
+  void setSession(ReviewSession* session) {
+    session_ = session;
+    update();
+  }
+  void setLoader(ThumbnailLoader* loader);
+  void showFrame(TrapId trap, int frame);
+  void setCells(std::vector<CellOutline> cells);
+  // What the caption says (for tests and the status line).
+  QString caption() const;
+  QSize sizeHint() const override { return {300, 360}; }
+
+ protected:
+  void paintEvent(QPaintEvent* event) override;
+
+ private:
+  void onReady(const ThumbnailKey& key);
+  QRectF imageRect() const;
+
+  ReviewSession* session_ = nullptr;
+  ThumbnailLoader* loader_ = nullptr;
+  std::optional<TrapId> trap_;
+  int frame_ = 0;
+  std::vector<CellOutline> cells_;
+};
+
+}  // namespace budledger::ui
