@@ -1,12 +1,13 @@
 // budledger-cli analyze STACK.tif|FOLDER... --project P.budledger — runs the
-// analysis stages that exist (ingest, drift, trap lattice; the engine's
-// per-frame stages plug into pipeline::analyzePosition) over every position
-// and writes them into the project. A new project is built in a temporary
-// file beside the target and renamed into place only when every position
-// succeeded; an existing project gets all positions in one transaction. On
+// analysis (ingest, drift, trap lattice, then the engine: measure, classify,
+// propose) over every position and writes them, with one engine run holding
+// every position's proposals and measurements, into the project. A new
+// project is built in a temporary file beside the target and renamed into
+// place only when every position succeeded; an existing project gets all positions in one transaction. On
 // failure nothing is left behind either way.
 #include <fmt/format.h>
 #include <unistd.h>
+#include <opencv2/core/utility.hpp>
 
 #include <cmath>
 #include <filesystem>
@@ -21,6 +22,8 @@
 #include "core/base/error.h"
 #include "core/io/frame_source.h"
 #include "core/io/image_folder.h"
+#include "core/engine/engine_stage.h"
+#include "core/measure/occupancy.h"
 #include "core/pipeline/analyze.h"
 #include "core/store/project.h"
 #include "core/traps/traps_csv.h"
@@ -61,9 +64,10 @@ std::vector<Position> openInputs(const AnalyzeArgs& args) {
   }
   for (const auto& p : out)
     if (!names.insert(p.name).second)
-      throw InputError(fmt::format("two inputs are both position '{}' (positions are named after "
-                                   "their files)",
-                                   p.name));
+      throw InputError(
+          fmt::format("two inputs are both position '{}' (positions are named after "
+                      "their files)",
+                      p.name));
   return out;
 }
 
@@ -93,6 +97,9 @@ std::string describe(const pipeline::PositionAnalysis& a) {
 }
 
 int runAnalyze(const AnalyzeArgs& args) {
+  // The pipeline runs its own threads (decoding, digests beside
+  // registration); OpenCV's worker pool on top only makes them queue.
+  cv::setNumThreads(1);
   std::vector<Position> positions = openInputs(args);
   std::optional<std::vector<traps::SuppliedTrap>> supplied;
   if (!args.traps.empty()) supplied = traps::readTrapsCsv(args.traps);
@@ -105,8 +112,9 @@ int runAnalyze(const AnalyzeArgs& args) {
     options.suppliedTraps = &*supplied;
     options.suppliedTrapsFile = args.traps;
   }
-  // The engine's per-frame stages (measure, classify, propose) are added here.
-  std::vector<pipeline::FrameStage*> stages;
+  // The engine (measure, classify, propose) sees every frame's crops.
+  engine::EngineStage engineStage(engine::EngineOptions{}, measure::OccupancyModel::builtIn());
+  std::vector<pipeline::FrameStage*> stages{&engineStage};
 
   const std::filesystem::path target(args.project);
   const bool existing = std::filesystem::exists(target);
@@ -125,17 +133,27 @@ int runAnalyze(const AnalyzeArgs& args) {
     TerminalProgress bar;
     for (size_t i = 0; i < positions.size(); ++i) {
       auto& p = positions[i];
-      const std::string label =
-          positions.size() > 1 ? fmt::format("[{}/{}] {}", i + 1, positions.size(), p.name) : p.name;
+      const std::string label = positions.size() > 1
+                                    ? fmt::format("[{}/{}] {}", i + 1, positions.size(), p.name)
+                                    : p.name;
       Progress sink = bar.sink();
       auto report = sink.report;
       sink.report = [report, label](std::string_view stage, double f) {
         report(fmt::format("{}: {}", label, stage), f);
       };
       options.positionName = p.name;
+      engineStage.setProgress(sink);
       const auto a = pipeline::analyzePosition(project, *p.source, options, sink, stages);
       lines.push_back(describe(a));
+      const auto& outcome = engineStage.outcomes().back();
+      lines.push_back(fmt::format("{}: engine {:.2f} s, {} events proposed, {} trap{} flagged for review{}{}",
+                                  p.name, outcome.result.seconds, outcome.result.events.size(),
+                                  outcome.result.flags.size(),
+                                  outcome.result.flags.size() == 1 ? "" : "s",
+                                  outcome.result.note.empty() ? "" : "; ", outcome.result.note));
     }
+    const auto run = engineStage.writeRun(project);
+    lines.push_back(fmt::format("engine run {} stored", run));
     all.commit();
   } catch (...) {
     if (!existing) removeProjectFiles(building);
@@ -145,8 +163,8 @@ int runAnalyze(const AnalyzeArgs& args) {
     // The project's connection is closed (WAL folded back); now publish it.
     if (std::filesystem::exists(target)) {
       removeProjectFiles(building);
-      throw InputError(fmt::format("project '{}' appeared while analysing; not overwritten",
-                                   target.string()));
+      throw InputError(
+          fmt::format("project '{}' appeared while analysing; not overwritten", target.string()));
     }
     std::filesystem::rename(building, target);
     removeProjectFiles(building);

@@ -22,7 +22,9 @@ namespace budledger::pipeline {
 namespace {
 
 using Clock = std::chrono::steady_clock;
-double since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
+double since(Clock::time_point t) {
+  return std::chrono::duration<double>(Clock::now() - t).count();
+}
 
 // Digests every input file on a helper thread while the frames are worked on.
 class DigestJob {
@@ -61,7 +63,8 @@ std::string firstFile(const io::StackInfo& info) {
 // A focus measure of the frame's centre, to pick a sharp reference frame.
 double centreFocus(const cv::Mat& frame) {
   const int w = std::min(frame.cols, 384), h = std::min(frame.rows, 384);
-  return registration::focusMeasure(frame(cv::Rect((frame.cols - w) / 2, (frame.rows - h) / 2, w, h)));
+  return registration::focusMeasure(
+      frame(cv::Rect((frame.cols - w) / 2, (frame.rows - h) / 2, w, h)));
 }
 
 }  // namespace
@@ -77,8 +80,7 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
   out.pixelUm = options.pixelUm ? options.pixelUm : info.metadata.pixelUmX;
   const int frames = info.frames;
   const std::string file = firstFile(info);
-  if (frames < 2)
-    throw InputError(file, std::nullopt, "a time-lapse needs at least two frames");
+  if (frames < 2) throw InputError(file, std::nullopt, "a time-lapse needs at least two frames");
 
   std::unique_ptr<DigestJob> digests;
   if (options.digests) digests = std::make_unique<DigestJob>(info.files);
@@ -126,8 +128,8 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
 
   // Registration pass, keeping a bounded sample for the temporal median.
   t = Clock::now();
-  const std::size_t frameBytes = static_cast<std::size_t>(info.width) *
-                                 static_cast<std::size_t>(info.height) * 2;
+  const std::size_t frameBytes =
+      static_cast<std::size_t>(info.width) * static_cast<std::size_t>(info.height) * 2;
   const int budgetFrames =
       static_cast<int>(std::max<std::size_t>(5, options.projectionBudgetBytes / (2 * frameBytes)));
   const std::vector<int> sampled =
@@ -174,9 +176,9 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
                      "no repeating trap lattice found in the images; supply the trap centres with "
                      "--traps");
   } else if (found.layout.traps.empty()) {
-    throw InputError(file, std::nullopt,
-                     fmt::format("no traps found ({}); supply the trap centres with --traps",
-                                 found.note));
+    throw InputError(
+        file, std::nullopt,
+        fmt::format("no traps found ({}); supply the trap centres with --traps", found.note));
   } else {
     out.layout = std::move(found.layout);
   }
@@ -244,9 +246,9 @@ namespace {
 void requireNewName(store::Project& project, const std::string& name, const std::string& file) {
   for (const auto& p : project.positions())
     if (p.name == name)
-      throw InputError(file, std::nullopt,
-                       fmt::format("position '{}' is already in project '{}'", name,
-                                   project.path()));
+      throw InputError(
+          file, std::nullopt,
+          fmt::format("position '{}' is already in project '{}'", name, project.path()));
 }
 }  // namespace
 
@@ -283,7 +285,8 @@ int writePosition(store::Project& project, const PositionAnalysis& a, const Anal
   const std::string prefix = fmt::format("position.{}.", a.name);
   if (a.intervalMin) {
     project.setMeta(prefix + "interval_min", fmt::format("{}", *a.intervalMin));
-    if (!project.meta("interval_min")) project.setMeta("interval_min", fmt::format("{}", *a.intervalMin));
+    if (!project.meta("interval_min"))
+      project.setMeta("interval_min", fmt::format("{}", *a.intervalMin));
   }
   if (a.pixelUm) {
     project.setMeta(prefix + "pixel_um", fmt::format("{}", *a.pixelUm));

@@ -11,7 +11,9 @@
 //            stages' results in one transaction
 // Memory is bounded by a few frames plus the projection's sample, however
 // long the movie. Progress is reported per stage; a CancelToken is honoured
-// between frames (Cancelled is thrown and nothing is written).
+// between frames (Cancelled is thrown and nothing is written). The pipeline
+// runs its own threads; callers on small machines do well to switch OpenCV's
+// worker pool off (cv::setNumThreads(1)), as budledger-cli analyze does.
 #include <filesystem>
 #include <optional>
 #include <span>
@@ -46,12 +48,12 @@ struct AnalyzeOptions {
   registration::TrackOptions tracking;
   traps::LatticeOptions lattice;
   traps::TrapFinderOptions finder;
-  int surveyFrames = 4;        // frames the lattice is first estimated from
-  int referenceCandidates = 4; // the sharpest of the first few frames is the reference
-  int projectionFrames = 15;   // frames in the temporal median (fewer for very large frames)
+  int surveyFrames = 4;         // frames the lattice is first estimated from
+  int referenceCandidates = 4;  // the sharpest of the first few frames is the reference
+  int projectionFrames = 15;    // frames in the temporal median (fewer for very large frames)
   std::size_t projectionBudgetBytes = std::size_t{96} << 20;
-  int readAhead = 3;           // decoded frames buffered ahead of registration
-  bool digests = true;         // SHA-256 of every input file
+  int readAhead = 3;    // decoded frames buffered ahead of registration
+  bool digests = true;  // SHA-256 of every input file
 };
 
 struct AnalyzeTimings {

@@ -35,9 +35,9 @@ struct PositionContext {
 
 struct FrameView {
   int frame = 0;
-  const cv::Mat* image = nullptr;                  // the whole frame as decoded
+  const cv::Mat* image = nullptr;  // the whole frame as decoded
   const registration::FrameDrift* drift = nullptr;
-  const std::vector<cv::Mat>* crops = nullptr;     // one per trap, in layout order (= trap id)
+  const std::vector<cv::Mat>* crops = nullptr;  // one per trap, in layout order (= trap id)
 };
 
 class FrameStage {

@@ -41,8 +41,8 @@ Registrar::Registrar(const cv::Mat& reference, const cv::Mat& structure,
             (structure.type() == CV_32F && structure.size() == reference.size()));
   const int ww = std::min(options.coarseWindow, frameSize_.width);
   const int wh = std::min(options.coarseWindow, frameSize_.height);
-  factor_ = std::max(1, static_cast<int>(std::ceil(std::max(ww, wh) /
-                                                   static_cast<double>(options.coarseSize))));
+  factor_ = std::max(
+      1, static_cast<int>(std::ceil(std::max(ww, wh) / static_cast<double>(options.coarseSize))));
   coarseRect_ = centred(frameSize_, cv::Size(ww / factor_ * factor_, wh / factor_ * factor_));
   searchRadius_ = options.searchRadius > 0 ? options.searchRadius : std::min(ww, wh) / 4.0;
   maxShift_ = options.maxShift > 0 ? options.maxShift
@@ -78,12 +78,12 @@ Registrar::FinePatch* Registrar::finePatchFor(cv::Point shift) {
   sh &= ~1;
   if (sw < 32 || sh < 32) return nullptr;
   cv::Point origin = centred(frameSize_, cv::Size(sw, sh)).tl();
-  origin.x = std::clamp(origin.x, std::max(kMargin, kMargin - shift.x),
-                        std::min(frameSize_.width - sw - kMargin,
-                                 frameSize_.width - sw - kMargin - shift.x));
-  origin.y = std::clamp(origin.y, std::max(kMargin, kMargin - shift.y),
-                        std::min(frameSize_.height - sh - kMargin,
-                                 frameSize_.height - sh - kMargin - shift.y));
+  origin.x = std::clamp(
+      origin.x, std::max(kMargin, kMargin - shift.x),
+      std::min(frameSize_.width - sw - kMargin, frameSize_.width - sw - kMargin - shift.x));
+  origin.y = std::clamp(
+      origin.y, std::max(kMargin, kMargin - shift.y),
+      std::min(frameSize_.height - sh - kMargin, frameSize_.height - sh - kMargin - shift.y));
   const std::array<int, 4> key{origin.x, origin.y, sw, sh};
   auto it = fine_.find(key);
   if (it != fine_.end()) return &it->second;

@@ -57,7 +57,8 @@ cv::Mat periodicAverage(const cv::Mat& values, const Lattice& lattice, cv::Rect 
   for (int y = 0; y < fold.height; ++y) {
     const float* row = values.ptr<float>(fold.y + y) + fold.x;
     for (int x = 0; x < fold.width; ++x) {
-      const int b = binOf[static_cast<size_t>(y) * static_cast<size_t>(fold.width) + static_cast<size_t>(x)];
+      const int b =
+          binOf[static_cast<size_t>(y) * static_cast<size_t>(fold.width) + static_cast<size_t>(x)];
       sorted[static_cast<size_t>(fill[static_cast<size_t>(b)]++)] = row[x];
     }
   }
@@ -75,7 +76,8 @@ cv::Mat periodicAverage(const cv::Mat& values, const Lattice& lattice, cv::Rect 
   for (int y = 0; y < values.rows; ++y) {
     grid.row(0, y, values.cols, rowBins.data());
     float* row = out.ptr<float>(y);
-    for (int x = 0; x < values.cols; ++x) row[x] = median[static_cast<size_t>(rowBins[static_cast<size_t>(x)])];
+    for (int x = 0; x < values.cols; ++x)
+      row[x] = median[static_cast<size_t>(rowBins[static_cast<size_t>(x)])];
   }
   return out;
 }

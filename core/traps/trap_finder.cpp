@@ -171,8 +171,8 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
     const Part& s = parts[static_cast<size_t>(seed)];
     const bool bigger = parts[i].area > 1.1 * s.area;
     const bool similar = parts[i].area > 0.9 * s.area;
-    if (bigger || (similar && cv::norm(parts[i].centroid - boxCentre) <
-                                  cv::norm(s.centroid - boxCentre)))
+    if (bigger ||
+        (similar && cv::norm(parts[i].centroid - boxCentre) < cv::norm(s.centroid - boxCentre)))
       seed = static_cast<int>(i);
   }
   if (seed < 0) {
@@ -186,8 +186,11 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
   std::vector<int> order(static_cast<size_t>(classes));
   std::iota(order.begin(), order.end(), 0);
   std::vector<int> classArea(static_cast<size_t>(classes), 0);
-  for (const auto& p : parts) classArea[static_cast<size_t>(p.cls)] = std::max(classArea[static_cast<size_t>(p.cls)], p.area);
-  std::sort(order.begin(), order.end(), [&](int a, int b) { return classArea[static_cast<size_t>(a)] > classArea[static_cast<size_t>(b)]; });
+  for (const auto& p : parts)
+    classArea[static_cast<size_t>(p.cls)] = std::max(classArea[static_cast<size_t>(p.cls)], p.area);
+  std::sort(order.begin(), order.end(), [&](int a, int b) {
+    return classArea[static_cast<size_t>(a)] > classArea[static_cast<size_t>(b)];
+  });
   for (int c : order) {
     if (c == parts[static_cast<size_t>(seed)].cls) continue;
     int best = -1;
@@ -243,6 +246,9 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
                     cv::Point2f(static_cast<float>(tplBox.x + (tplBox.width - 1) / 2.0),
                                 static_cast<float>(tplBox.y + (tplBox.height - 1) / 2.0)),
                     tpl, CV_32F);
+  cv::Scalar tplMean, tplSd;
+  cv::meanStdDev(tpl, tplMean, tplSd);
+  const double tplContrast = tplSd[0];
   // Template centre relative to the cup centre.
   const cv::Point2d tplOffset(tplBox.x + (tplBox.width - 1) / 2.0 - cup.x,
                               tplBox.y + (tplBox.height - 1) / 2.0 - cup.y);
@@ -280,6 +286,11 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
       double best = 0;
       cv::Point at;
       cv::minMaxLoc(score, nullptr, &best, nullptr, &at);
+      // A featureless site (a wall, an empty part of the chip) can correlate
+      // "perfectly" by rounding; it must show the template's contrast.
+      cv::Scalar mean, sd;
+      cv::meanStdDev(area(cv::Rect(at, tpl.size())), mean, sd);
+      if (sd[0] < 0.3 * tplContrast) best = 0;
       auto vertex = [](double m, double c0, double p) {
         const double den = m - 2 * c0 + p;
         return den < 0 ? std::clamp(0.5 * (m - p) / den, -0.5, 0.5) : 0.0;
@@ -299,11 +310,15 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
       const cv::Rect inside = region & frame;
       if (inside.width < 4 || inside.height < 4) continue;
       const cv::Mat a = P(inside);
-      const cv::Mat b = tpl(cv::Rect(inside.x - region.x, inside.y - region.y, inside.width,
-                                     inside.height));
+      const cv::Mat b =
+          tpl(cv::Rect(inside.x - region.x, inside.y - region.y, inside.width, inside.height));
       cv::Mat score;
       cv::matchTemplate(a, b, score, cv::TM_CCOEFF_NORMED);
       site.score = score.at<float>(0, 0);
+      cv::Scalar mean, sd, tmean, tsd;
+      cv::meanStdDev(a, mean, sd);
+      cv::meanStdDev(b, tmean, tsd);
+      if (sd[0] < 0.3 * tsd[0]) site.score = 0;
       site.matched = c;
     }
     sites.push_back(site);
@@ -318,8 +333,7 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
   const double typical = medianOf(wholeScores);
   const double threshold = std::max(options.minMatch, options.presenceFraction * typical);
   std::vector<bool> use(sites.size());
-  for (size_t k = 0; k < sites.size(); ++k)
-    use[k] = sites[k].whole && sites[k].score >= threshold;
+  for (size_t k = 0; k < sites.size(); ++k) use[k] = sites[k].whole && sites[k].score >= threshold;
   Lattice fitted = traps;
   for (int round = 0; round < 3; ++round) {
     std::vector<cv::Point2d> pts2;
@@ -352,8 +366,7 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
     }
     Trap t;
     t.centre = fitted.at(st.ij.x, st.ij.y);
-    if (t.centre.x < 0 || t.centre.y < 0 || t.centre.x >= size.width ||
-        t.centre.y >= size.height)
+    if (t.centre.x < 0 || t.centre.y < 0 || t.centre.x >= size.width || t.centre.y >= size.height)
       continue;
     t.match = st.score;
     layout.traps.push_back(t);
@@ -362,10 +375,11 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
   numberTraps(layout.traps, layout.lattice);
   layout.crop = cropBox(layout.support, layout.lattice);
   // The template image over the crop box, for thumbnails and measurement.
-  cv::getRectSubPix(T, layout.crop.size(),
-                    cv::Point2f(static_cast<float>(cup.x + layout.crop.x + (layout.crop.width - 1) / 2.0),
-                                static_cast<float>(cup.y + layout.crop.y + (layout.crop.height - 1) / 2.0)),
-                    layout.templ, CV_32F);
+  cv::getRectSubPix(
+      T, layout.crop.size(),
+      cv::Point2f(static_cast<float>(cup.x + layout.crop.x + (layout.crop.width - 1) / 2.0),
+                  static_cast<float>(cup.y + layout.crop.y + (layout.crop.height - 1) / 2.0)),
+      layout.templ, CV_32F);
   if (layout.traps.empty()) result.note = "no lattice site matched the trap template";
   return result;
 }

@@ -28,7 +28,9 @@ std::vector<std::vector<double>> readCsv(const std::filesystem::path& file) {
 std::vector<TruthTrap> readTruthTraps(const std::filesystem::path& file) {
   std::vector<TruthTrap> out;
   for (const auto& r : readCsv(file))
-    out.push_back({static_cast<int>(r.at(0)), static_cast<int>(r.at(1)), static_cast<int>(r.at(2)),
+    out.push_back({static_cast<int>(r.at(0)),
+                   static_cast<int>(r.at(1)),
+                   static_cast<int>(r.at(2)),
                    {r.at(3), r.at(4)}});
   return out;
 }
@@ -69,7 +71,8 @@ LayoutScore scoreLayout(const traps::TrapLayout& layout, const registration::Dri
   s.precision = s.found ? static_cast<double>(s.matched) / s.found : 0;
   if (s.matched == 0) return s;
   for (size_t i = 0; i < ofOurs.size(); ++i)
-    if (ofOurs[i] >= 0) s.offset += layout.traps[i].centre - truth[static_cast<size_t>(ofOurs[i])].centre;
+    if (ofOurs[i] >= 0)
+      s.offset += layout.traps[i].centre - truth[static_cast<size_t>(ofOurs[i])].centre;
   s.offset *= 1.0 / s.matched;
   int lastTruthId = -1;
   for (size_t i = 0; i < ofOurs.size(); ++i) {

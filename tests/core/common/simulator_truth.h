@@ -26,12 +26,12 @@ std::vector<cv::Point2d> readTruthDrift(const std::filesystem::path& file);
 struct LayoutScore {
   int truth = 0, found = 0, matched = 0;
   double recall = 0, precision = 0;
-  cv::Point2d offset;           // mean (ours - truth) over matched traps
-  double maxOffsetSpread = 0;   // max |ours - truth - offset| at frame 0
-  double maxTrackError = 0;     // max over traps and frames of the tracked position's error
-  double maxDriftError = 0;     // max |drift - true drift| over frames
+  cv::Point2d offset;          // mean (ours - truth) over matched traps
+  double maxOffsetSpread = 0;  // max |ours - truth - offset| at frame 0
+  double maxTrackError = 0;    // max over traps and frames of the tracked position's error
+  double maxDriftError = 0;    // max |drift - true drift| over frames
   double rmsDriftError = 0;
-  bool idsRowMajor = true;      // matched traps keep the truth's row-major order
+  bool idsRowMajor = true;  // matched traps keep the truth's row-major order
 };
 
 // `tolerance`: largest centre distance (px) that counts as the same trap.

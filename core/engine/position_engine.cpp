@@ -1,0 +1,305 @@
+#include "core/engine/position_engine.h"
+
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <atomic>
+#include <chrono>
+#include <cmath>
+#include <numbers>
+#include <thread>
+
+#include "budledger/version.h"
+#include "core/measure/background.h"
+#include "core/measure/features.h"
+
+namespace budledger::engine {
+namespace {
+
+template <typename Fn>
+void parallelFor(std::size_t n, int threads, Fn&& fn) {
+  int workers = threads > 0 ? threads : static_cast<int>(std::thread::hardware_concurrency());
+  workers = std::clamp(workers, 1, static_cast<int>(std::max<std::size_t>(1, n)));
+  std::atomic<std::size_t> next{0};
+  auto run = [&] {
+    for (std::size_t i = next++; i < n; i = next++) fn(i);
+  };
+  std::vector<std::thread> pool;
+  for (int w = 1; w < workers; ++w) pool.emplace_back(run);
+  run();
+  for (auto& th : pool) th.join();
+}
+
+double median(std::vector<double> v) {
+  if (v.empty()) return 0;
+  auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
+  std::nth_element(v.begin(), mid, v.end());
+  return *mid;
+}
+
+Occupancy argmaxOccupancy(const measure::ClassProbabilities& p) {
+  return static_cast<Occupancy>(std::max_element(p.begin(), p.end()) - p.begin());
+}
+
+std::string_view roleName(measure::CellRole r) {
+  switch (r) {
+    case measure::CellRole::Mother:
+      return "mother";
+    case measure::CellRole::Bud:
+      return "bud";
+    case measure::CellRole::Other:
+      return "other";
+  }
+  return "other";
+}
+
+std::string featuresJson(const measure::CropReading& r, const measure::FrameFeatures& f,
+                         bool informative, const std::vector<std::string>& review) {
+  nlohmann::json j;
+  if (!informative) j["informative"] = false;
+  auto round3 = [](double v) { return std::round(v * 1000) / 1000; };
+  for (const auto& c : r.cells)
+    j["cells"].push_back({{"x", round3(c.x)},
+                          {"y", round3(c.y)},
+                          {"area_um2", round3(c.areaUm2)},
+                          {"diameter_um", round3(c.diameterUm)},
+                          {"eccentricity", round3(c.eccentricity)},
+                          {"cup_dx_um", round3(c.cupDxUm)},
+                          {"cup_dy_um", round3(c.cupDyUm)},
+                          {"contrast", round3(c.contrast)},
+                          {"role", std::string(roleName(c.role))}});
+  if (f.hasMother) j["bud_ratio"] = round3(f.budRatio);
+  if (!review.empty()) j["review"] = review;
+  return j.dump();
+}
+
+}  // namespace
+
+nlohmann::json parametersJson(const EngineOptions& o) {
+  const auto& c = o.propose.cycle;
+  const auto& s = o.segment;
+  return {{"engine", "budledger"},
+          {"version", kVersion},
+          {"mother_diameter_um_start", o.motherDiameterUm},
+          {"background_samples", o.backgroundSamples},
+          {"lodged_neighbour_min", o.lodgedMin},
+          {"segment",
+           {{"threshold_sd", s.threshold},
+            {"smooth_sigma_px", s.smoothSigmaPx},
+            {"min_cell_area_fraction", s.minCellAreaFraction},
+            {"min_bud_area_fraction", s.minBudAreaFraction},
+            {"seat_radius_factor", s.seatRadiusFactor},
+            {"neck_ratio", s.neckRatio}}},
+          {"temporal_model",
+           {{"min_budded_min", c.minBuddedMin},
+            {"mean_unbudded_min", c.meanUnbuddedMin},
+            {"mean_budded_extra_min", c.meanBuddedExtraMin},
+            {"immediate_rebud", c.immediateRebud},
+            {"arrival_per_min", c.arrivalPerMin},
+            {"washout_per_min", c.washoutPerMin},
+            {"death_per_min", c.deathPerMin},
+            {"dead_gone_per_min", c.deadGonePerMin},
+            {"death_onset_min", c.deathOnsetMin},
+            {"em_iterations", o.propose.emIterations},
+            {"emission_prior_weight", o.propose.emissionPriorWeight},
+            {"transition_prior_weight", o.propose.transitionPriorWeight}}},
+          {"review",
+           {{"crowded_share", o.propose.review.crowdedShare},
+            {"empty_share", o.propose.review.emptyShare},
+            {"informative_share", o.propose.review.informativeShare}}}};
+}
+
+EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
+                       const measure::OccupancyModel& model, const Progress& progress) {
+  const auto start = std::chrono::steady_clock::now();
+  EngineResult out;
+  const auto& crops = *in.crops;
+  const std::size_t N = crops.size();
+  const int T = N ? static_cast<int>(crops.front().size()) : 0;
+  if (N == 0 || T == 0) return out;
+  std::vector<bool> informative = in.informative;
+  informative.resize(static_cast<std::size_t>(T), true);
+
+  // 1. Sample frames spread over the movie, informative ones only.
+  std::vector<int> goodFrames;
+  for (int t = 0; t < T; ++t)
+    if (informative[static_cast<std::size_t>(t)]) goodFrames.push_back(t);
+  std::vector<int> sampleFrames;
+  const int S = std::min<int>(options.backgroundSamples, static_cast<int>(goodFrames.size()));
+  for (int i = 0; i < S; ++i)
+    sampleFrames.push_back(goodFrames[static_cast<std::size_t>(
+        (static_cast<long>(i) * static_cast<long>(goodFrames.size())) / std::max(1, S))]);
+  auto lap = [last = std::chrono::steady_clock::now()]() mutable {
+    const auto now = std::chrono::steady_clock::now();
+    const double s = std::chrono::duration<double>(now - last).count();
+    last = now;
+    return s;
+  };
+  nlohmann::json timing;
+  progress("engine: background", 0.0);
+  std::vector<std::vector<cv::Mat>> samples(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
+    for (int t : sampleFrames)
+      samples[i].push_back(measure::normaliseCrop(crops[i][static_cast<std::size_t>(t)]));
+  });
+
+  // 2. Backgrounds, noise, outline sign and mother size, all from the data.
+  const double startRadius = 0.5 * options.motherDiameterUm / in.pixelUm;
+  measure::BackgroundOptions bo;
+  bo.cupRadiusPx = 1.3 * startRadius;
+  bo.threads = options.threads;
+  const auto background = measure::BackgroundModel::learn(samples, in.cup.x, in.cup.y, bo);
+  measure::SegmentParams seg = options.segment;
+  seg.motherRadiusPx = startRadius;
+  seg.keepMask = false;
+  std::vector<double> noises;
+  for (std::size_t i = 0; i < N; ++i)
+    for (const auto& s : samples[i])
+      noises.push_back(measure::estimateNoise(s, background.background(i), seg.smoothSigmaPx));
+  const double noise = std::max(1e-9, median(noises));
+  measure::OutlineAreas areas;
+  for (std::size_t i = 0; i < N; ++i)
+    for (const auto& s : samples[i]) areas += measure::outlineAreas(s, background.background(i), noise, seg);
+  seg.polarity = measure::choosePolarity(areas);
+  const measure::CropGeometry geometry{in.cup.x, in.cup.y, in.pixelUm};
+  std::vector<double> motherAreas;
+  for (std::size_t i = 0; i < N; ++i)
+    for (const auto& s : samples[i]) {
+      const auto r = measure::segmentCrop(s, background.background(i), noise, geometry, seg);
+      if (r.mother >= 0) motherAreas.push_back(r.cells[static_cast<std::size_t>(r.mother)].areaPx);
+    }
+  if (motherAreas.size() >= 5)
+    seg.motherRadiusPx = std::clamp(std::sqrt(median(motherAreas) / std::numbers::pi),
+                                    0.6 * startRadius, 1.6 * startRadius);
+  out.calibration = {{"noise_sd", noise},
+                     {"polarity", seg.polarity},
+                     {"mother_radius_px", seg.motherRadiusPx},
+                     {"empty_samples", background.emptySamples()},
+                     {"background_floor", background.noiseFloor()},
+                     {"sample_frames", sampleFrames.size()}};
+  if (background.quality() == measure::BackgroundModel::Quality::NoEmptyTrap)
+    out.note = "no trap looked empty in any sampled frame: backgrounds are the lattice median "
+               "of occupied traps, calls need review";
+
+  timing["calibration_s"] = lap();
+  // 3. Cells, features and occupancy in every crop; evidence for the temporal model.
+  progress("engine: cells", 0.1);
+  measure::FeatureContext fctx;
+  fctx.motherRadiusPx = seg.motherRadiusPx;
+  std::vector<propose::TrapEvidence> evidence(N);
+  std::vector<std::vector<measure::CropReading>> readings(N);
+  std::vector<std::vector<measure::FrameFeatures>> features(N);
+  std::vector<std::vector<measure::ClassProbabilities>> probabilities(N);
+  std::atomic<int> done{0};
+  measure::SegmentParams segKeep = seg;
+  segKeep.keepMask = true;
+  const int lodgeFrames =
+      std::max(4, static_cast<int>(std::ceil(options.lodgedMin / std::max(1e-9, in.intervalMin))));
+  parallelFor(N, options.threads, [&](std::size_t i) {
+    readings[i].resize(static_cast<std::size_t>(T));
+    features[i].resize(static_cast<std::size_t>(T));
+    probabilities[i].assign(static_cast<std::size_t>(T), {1, 0, 0, 0});
+    evidence[i].resize(static_cast<std::size_t>(T));
+    for (int t = 0; t < T; ++t) {
+      const auto ut = static_cast<std::size_t>(t);
+      if (!informative[ut]) continue;
+      const cv::Mat crop = measure::normaliseCrop(crops[i][ut]);
+      readings[i][ut] =
+          measure::segmentCrop(crop, background.background(i), noise, geometry, segKeep);
+    }
+    const auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
+    int previous = -1;  // last informative frame
+    std::vector<int> previousAttached;
+    for (int t = 0; t < T; ++t) {
+      const auto ut = static_cast<std::size_t>(t);
+      propose::FrameEvidence& e = evidence[i][ut];
+      if (!informative[ut]) {
+        e.informative = false;
+        continue;
+      }
+      features[i][ut] = measure::computeFeatures(readings[i][ut], fctx, lodged[ut]);
+      probabilities[i][ut] = model.predict(features[i][ut]);
+      const auto& f = features[i][ut];
+      e.occupancy = probabilities[i][ut];
+      // Beside a lodged neighbour a bud can hide: its size is then not evidence.
+      e.budRatio = f.hasMother && !f.lodgedNeighbour ? f.budRatio : propose::kMissing;
+      if (f.hasMother)
+        e.morph = {f.motherContrast, f.motherTexture, std::log(std::max(1.0, f.motherAreaPx))};
+      std::vector<int> attached;
+      for (const auto& a : measure::attachedCells(readings[i][ut], fctx))
+        if (std::find(lodged[ut].begin(), lodged[ut].end(), a.cell) == lodged[ut].end())
+          attached.push_back(a.cell);
+      if (previous >= 0 && f.hasMother)
+        e.departure = measure::departedArea(readings[i][static_cast<std::size_t>(previous)],
+                                            previousAttached, readings[i][ut],
+                                            0.5 * seg.threshold);
+      previous = t;
+      previousAttached = std::move(attached);
+    }
+    for (auto& r : readings[i]) {
+      r.mask.release();
+      r.difference.release();
+    }
+    ++done;
+  });
+
+  timing["cells_s"] = lap();
+  // 4. Events.
+  progress("engine: events", 0.6);
+  propose::ProposeOptions po = options.propose;
+  po.cycle.intervalMin = in.intervalMin;
+  po.threads = options.threads;
+  const auto calls = propose::proposePosition(in.position, in.trapIds, evidence, po);
+  out.calibration["temporal_model"] = {
+      {"mean_unbudded_min", calls.cycle.meanUnbuddedMin},
+      {"mean_budded_extra_min", calls.cycle.meanBuddedExtraMin},
+      {"immediate_rebud", calls.cycle.immediateRebud},
+      {"budded_frames", calls.buddedFrames},
+      {"log_likelihood", calls.logLikelihood},
+      {"occupancy_given_state", calls.emission.occupancy},
+      {"bud_ratio_by_age", calls.emission.budRatioMean},
+      {"bud_ratio_sigma", calls.emission.budRatioSigma},
+      {"bud_ratio_unbudded", {calls.emission.budRatioUnbuddedMean, calls.emission.budRatioUnbuddedSigma}},
+      {"bud_ratio_dead", {calls.emission.budRatioDeadMean, calls.emission.budRatioDeadSigma}},
+      {"morph_live_sigma", calls.emission.morphLiveSigma},
+      {"morph_dead_mean", calls.emission.morphDeadMean}};
+
+  timing["events_s"] = lap();
+  // 5. Records.
+  progress("engine: records", 0.9);
+  for (std::size_t i = 0; i < N; ++i) {
+    const auto& tc = calls.traps[i];
+    out.events.insert(out.events.end(), tc.events.begin(), tc.events.end());
+    std::vector<std::string> review = tc.flags;
+    if (background.source(i) == measure::BackgroundModel::Source::Fallback)
+      review.push_back("background-from-occupied-traps");
+    for (const auto& r : review) out.flags.push_back({in.trapIds[i], r});
+    for (int t = 0; t < T; ++t) {
+      const auto ut = static_cast<std::size_t>(t);
+      store::MeasurementRecord m;
+      m.position = in.position;
+      m.trap = in.trapIds[i];
+      m.frame = t;
+      const auto& p = probabilities[i][ut];
+      m.occupancy = argmaxOccupancy(p);
+      m.pEmpty = p[0];
+      m.pSingle = p[1];
+      m.pBudded = p[2];
+      m.pCrowded = p[3];
+      m.cellCount = static_cast<int>(readings[i][ut].cells.size());
+      m.featuresJson = featuresJson(readings[i][ut], features[i][ut], informative[ut], review);
+      out.measurements.push_back(std::move(m));
+    }
+  }
+  timing["records_s"] = lap();
+  out.calibration["timing"] = timing;
+  if (options.keepFeatures) {
+    out.features = std::move(features);
+    out.evidence = std::move(evidence);
+  }
+  out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+  progress("engine", 1.0);
+  return out;
+}
+
+}  // namespace budledger::engine

@@ -1,0 +1,176 @@
+#include "core/measure/features.h"
+
+#include <algorithm>
+#include <cstdint>
+#include <cmath>
+#include <limits>
+#include <numbers>
+
+namespace budledger::measure {
+namespace {
+
+double radiusOf(double areaPx) { return std::sqrt(std::max(0.0, areaPx) / std::numbers::pi); }
+
+// Edge-to-edge gap between two cells modelled as disks of their areas.
+double gapBetween(const Cell& a, const Cell& b) {
+  return std::hypot(a.x - b.x, a.y - b.y) - radiusOf(a.areaPx) - radiusOf(b.areaPx);
+}
+
+}  // namespace
+
+std::string_view featureName(int i) {
+  static constexpr std::string_view names[kFeatureCount] = {
+      "mother",          "mother_area",   "bud_ratio",       "attached_cells",
+      "neighbour_gap",   "neighbour_area", "cup_strength",   "foreground_area",
+      "mother_elongation", "mother_offset"};
+  return i >= 0 && i < kFeatureCount ? names[i] : "?";
+}
+
+std::vector<AttachedCell> attachedCells(const CropReading& r, const FeatureContext& ctx) {
+  std::vector<AttachedCell> out;
+  if (r.mother < 0) return out;
+  const Cell& m = r.cells[static_cast<std::size_t>(r.mother)];
+  const double rm = std::max(1.0, radiusOf(m.areaPx));
+  for (std::size_t i = 0; i < r.cells.size(); ++i) {
+    if (static_cast<int>(i) == r.mother) continue;
+    const Cell& c = r.cells[i];
+    if (gapBetween(m, c) / rm < ctx.attachGap && c.areaPx < m.areaPx)
+      out.push_back({static_cast<int>(i), (c.x - m.x) / rm, (c.y - m.y) / rm, c.areaPx / m.areaPx});
+  }
+  return out;
+}
+
+std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& readings,
+                                               const FeatureContext& ctx, int minFrames) {
+  struct Track {
+    int first = 0, last = 0;
+    double x = 0, y = 0;
+      std::vector<std::pair<int, int>> members;  // (frame, cell)
+  };
+  std::vector<Track> tracks;
+  std::vector<int> open;  // indexes of tracks seen in the previous frame
+  for (int t = 0; t < static_cast<int>(readings.size()); ++t) {
+    std::vector<int> next;
+    for (const auto& a : attachedCells(readings[static_cast<std::size_t>(t)], ctx)) {
+      int best = -1;
+      double bestD = 0.5;  // link within half a mother radius
+      for (int k : open) {
+        const double d = std::hypot(tracks[static_cast<std::size_t>(k)].x - a.dx,
+                                    tracks[static_cast<std::size_t>(k)].y - a.dy);
+        if (d < bestD && tracks[static_cast<std::size_t>(k)].last == t - 1) {
+          bestD = d;
+          best = k;
+        }
+      }
+      if (best < 0) {
+        best = static_cast<int>(tracks.size());
+        tracks.push_back({});
+        tracks.back().first = t;
+      }
+      Track& tr = tracks[static_cast<std::size_t>(best)];
+      tr.last = t;
+      tr.x = a.dx;
+      tr.y = a.dy;
+      tr.members.emplace_back(t, a.cell);
+      next.push_back(best);
+    }
+    open = std::move(next);
+  }
+  // Any stretch of `minFrames` in which the neighbour's area stays within a factor 1.4
+  // is lodged, even if the same track began as a growing bud (a daughter that lodged).
+  std::vector<std::vector<int>> out(readings.size());
+  for (const auto& tr : tracks) {
+    const auto& mem = tr.members;
+    const std::size_t n = mem.size();
+    if (static_cast<int>(n) < minFrames) continue;
+    std::vector<bool> lodged(n, false);
+    for (std::size_t j = 0; j + static_cast<std::size_t>(minFrames) <= n; ++j) {
+      double lo = 1e9, hi = 0;
+      for (std::size_t k = j; k < j + static_cast<std::size_t>(minFrames); ++k) {
+        const auto& r = readings[static_cast<std::size_t>(mem[k].first)];
+        const double a = r.cells[static_cast<std::size_t>(mem[k].second)].areaPx /
+                         r.cells[static_cast<std::size_t>(r.mother)].areaPx;
+        lo = std::min(lo, a);
+        hi = std::max(hi, a);
+      }
+      if (hi < 1.4 * lo)
+        for (std::size_t k = j; k < j + static_cast<std::size_t>(minFrames); ++k) lodged[k] = true;
+    }
+    for (std::size_t k = 0; k < n; ++k)
+      if (lodged[k]) out[static_cast<std::size_t>(mem[k].first)].push_back(mem[k].second);
+  }
+  return out;
+}
+
+double departedArea(const CropReading& before, const std::vector<int>& attachedBefore,
+                    const CropReading& now, double backgroundSd) {
+  if (before.mask.empty() || now.mask.empty() || now.mother < 0 || before.mother < 0) return 0;
+  if (before.mask.size() != now.mask.size() || attachedBefore.empty()) return 0;
+  if (now.difference.size() != now.mask.size()) return 0;
+  std::vector<bool> wasAttached(before.cells.size() + 1, false);
+  for (int c : attachedBefore) wasAttached[static_cast<std::size_t>(c + 1)] = true;
+  int gone = 0;
+  for (int y = 0; y < now.mask.rows; ++y) {
+    const auto* b = before.mask.ptr<std::uint16_t>(y);
+    const auto* n = now.mask.ptr<std::uint16_t>(y);
+    const float* d = now.difference.ptr<float>(y);
+    for (int x = 0; x < now.mask.cols; ++x)
+      if (b[x] && wasAttached[b[x]] && n[x] == 0 && std::abs(d[x]) < backgroundSd) ++gone;
+  }
+  return gone / std::max(1.0, now.cells[static_cast<std::size_t>(now.mother)].areaPx);
+}
+
+FrameFeatures computeFeatures(const CropReading& r, const FeatureContext& ctx,
+                              const std::vector<int>& excluded) {
+  FrameFeatures f;
+  const double expectedArea = std::numbers::pi * ctx.motherRadiusPx * ctx.motherRadiusPx;
+  f.x[6] = std::log1p(std::max(0.0, r.cupStrength));
+  f.x[7] = r.foregroundPx / expectedArea;
+  f.x[4] = 3.0;  // no neighbour: far
+  if (r.mother < 0) {
+    f.motherContrast = f.motherTexture = f.motherAreaPx = std::numeric_limits<double>::quiet_NaN();
+    return f;
+  }
+  const Cell& m = r.cells[static_cast<std::size_t>(r.mother)];
+  const double rm = radiusOf(m.areaPx);
+  f.hasMother = true;
+  f.x[0] = 1;
+  f.x[1] = m.areaPx / expectedArea;
+  f.x[8] = m.eccentricity;
+  f.x[9] = std::hypot(m.cupDxUm, m.cupDyUm) /
+           std::max(1e-9, rm * std::sqrt(m.areaUm2 / std::max(1e-9, m.areaPx)));
+  f.motherContrast = m.contrast;
+  f.motherTexture = m.texture;
+  f.motherAreaPx = m.areaPx;
+  double bestBud = 0, nearestGap = 3.0, nearestArea = 0;
+  int attached = 0;
+  for (std::size_t i = 0; i < r.cells.size(); ++i) {
+    if (static_cast<int>(i) == r.mother) continue;
+    const Cell& c = r.cells[i];
+    const double gap = gapBetween(m, c) / std::max(1.0, rm);
+    const bool lodged =
+        std::find(excluded.begin(), excluded.end(), static_cast<int>(i)) != excluded.end();
+    const bool isAttached = gap < ctx.attachGap && !lodged;
+    if (lodged) {
+      ++f.nearOthers;
+      f.lodgedNeighbour = true;
+    } else if (isAttached && c.areaPx < m.areaPx) {
+      ++attached;
+      bestBud = std::max(bestBud, c.areaPx / m.areaPx);
+    } else if (gap < 1.0) {
+      ++f.nearOthers;
+    }
+    if (!isAttached && gap < nearestGap) {
+      nearestGap = std::max(0.0, gap);
+      nearestArea = c.areaPx / m.areaPx;
+    }
+  }
+  f.budRatio = bestBud;
+  f.x[2] = bestBud;
+  f.x[3] = attached;
+  f.x[4] = nearestGap;
+  f.x[5] = nearestArea;
+  return f;
+}
+
+}  // namespace budledger::measure

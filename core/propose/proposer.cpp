@@ -1,0 +1,317 @@
+#include "core/propose/proposer.h"
+
+#include <algorithm>
+#include <atomic>
+#include <cmath>
+#include <map>
+#include <stdexcept>
+#include <thread>
+
+namespace budledger::propose {
+namespace {
+
+template <typename Fn>
+void parallelFor(std::size_t n, int threads, Fn&& fn) {
+  int workers = threads > 0 ? threads : static_cast<int>(std::thread::hardware_concurrency());
+  workers = std::clamp(workers, 1, static_cast<int>(std::max<std::size_t>(1, n)));
+  if (workers == 1) {
+    for (std::size_t i = 0; i < n; ++i) fn(i, 0);
+    return;
+  }
+  std::atomic<std::size_t> next{0};
+  std::vector<std::thread> pool;
+  for (int w = 0; w < workers; ++w)
+    pool.emplace_back([&, w] {
+      for (std::size_t i = next++; i < n; i = next++) fn(i, w);
+    });
+  for (auto& th : pool) th.join();
+}
+
+// Which event kinds an arc stands for (a separation with an immediate bud is two).
+std::vector<EventKind> eventsOf(Transition t) {
+  switch (t) {
+    case Transition::Arrival:
+      return {EventKind::Arrival};
+    case Transition::Bud:
+      return {EventKind::Bud};
+    case Transition::Separation:
+      return {EventKind::Separation};
+    case Transition::SeparationBud:
+      return {EventKind::Separation, EventKind::Bud};
+    case Transition::Death:
+      return {EventKind::Death};
+    case Transition::Washout:
+      return {EventKind::Washout};
+    default:
+      return {};
+  }
+}
+
+struct TransitionCounts {
+  double unbuddedStay = 0, bud = 0;
+  double tailStay = 0, separation = 0, separationBud = 0;
+  double emptyStay = 0, arrival = 0;
+
+  void merge(const TransitionCounts& o) {
+    unbuddedStay += o.unbuddedStay;
+    bud += o.bud;
+    tailStay += o.tailStay;
+    separation += o.separation;
+    separationBud += o.separationBud;
+    emptyStay += o.emptyStay;
+    arrival += o.arrival;
+  }
+};
+
+void countTransitions(const CycleModel& model, const SparseHmm::Posteriors& post, int frames,
+                      TransitionCounts& c) {
+  const auto& arcs = model.hmm().arcs();
+  const std::size_t A = arcs.size();
+  const int tail = model.buddedState(model.buddedFrames());
+  for (int t = 1; t < frames; ++t) {
+    const double* row = &post.arc[static_cast<std::size_t>(t) * A];
+    for (std::size_t a = 0; a < A; ++a) {
+      const Arc& arc = arcs[a];
+      const auto tag = static_cast<Transition>(arc.tag);
+      if (arc.from == CycleModel::unbuddedState() || arc.from == model.separatedState()) {
+        if (tag == Transition::Stay || tag == Transition::Advance) c.unbuddedStay += row[a];
+        if (tag == Transition::Bud) c.bud += row[a];
+      } else if (arc.from == tail) {
+        if (tag == Transition::Stay) c.tailStay += row[a];
+        if (tag == Transition::Separation) c.separation += row[a];
+        if (tag == Transition::SeparationBud) c.separationBud += row[a];
+      } else if (arc.from == CycleModel::emptyState() || arc.from == model.vacatedState()) {
+        if (tag == Transition::Stay || tag == Transition::Advance) c.emptyStay += row[a];
+        if (tag == Transition::Arrival) c.arrival += row[a];
+      }
+    }
+  }
+}
+
+// MAP update of the durations and rates from expected transition counts.
+CycleParams reestimate(const CycleParams& prior, const TransitionCounts& c, double weight) {
+  CycleParams p = prior;
+  const double dt = prior.intervalMin;
+  // Geometric sojourns: mean frames = (stays + leaves) / leaves, with the prior's mean as
+  // pseudo-observations of `weight` sojourns.
+  const double priorUnbuddedFrames = std::max(1.0, prior.meanUnbuddedMin / dt);
+  const double unbuddedFrames =
+      (c.unbuddedStay + c.bud + weight * priorUnbuddedFrames) / (c.bud + weight);
+  p.meanUnbuddedMin = std::max(1.0, unbuddedFrames) * dt;
+  const double priorTailFrames = std::max(1.0, (prior.meanBuddedExtraMin + dt) / dt);
+  const double leaves = c.separation + c.separationBud;
+  const double tailFrames = (c.tailStay + leaves + weight * priorTailFrames) / (leaves + weight);
+  p.meanBuddedExtraMin = std::max(0.0, tailFrames - 1) * dt;
+  p.immediateRebud =
+      std::clamp((c.separationBud + weight * prior.immediateRebud) / (leaves + weight), 0.01, 0.99);
+  const double priorArrival = 1 - std::exp(-prior.arrivalPerMin * dt);
+  const double arrival = std::clamp(
+      (c.arrival + weight * priorArrival) / (c.emptyStay + c.arrival + weight), 1e-5, 0.5);
+  p.arrivalPerMin = -std::log(1 - arrival) / dt;
+  return p;
+}
+
+int argmax4(const std::array<double, 4>& q) {
+  return static_cast<int>(std::max_element(q.begin(), q.end()) - q.begin());
+}
+
+}  // namespace
+
+TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
+                     const EmissionParams& emission, const TrapEvidence& evidence,
+                     const ReviewRules& review, const MorphBaseline* baseline) {
+  TrapCalls out;
+  out.trap = trap;
+  const int T = static_cast<int>(evidence.size());
+  if (T == 0) return out;
+  const int S = model.stateCount();
+  const auto em = emissionLogLikelihood(model, emission, evidence, baseline);
+  const SparseHmm& hmm = model.hmm();
+  out.path = hmm.viterbi(em, T);
+  const auto post = hmm.forwardBackward(em, T);
+
+  out.pLive.resize(static_cast<std::size_t>(T));
+  out.pBudded.resize(static_cast<std::size_t>(T));
+  out.pDead.resize(static_cast<std::size_t>(T));
+  for (int t = 0; t < T; ++t) {
+    double live = 0, budded = 0;
+    for (int s = 0; s < S; ++s) {
+      const double g = post.state[static_cast<std::size_t>(t * S + s)];
+      if (model.isLive(s)) live += g;
+      if (model.budAge(s) > 0) budded += g;
+    }
+    out.pLive[static_cast<std::size_t>(t)] = static_cast<float>(live);
+    out.pBudded[static_cast<std::size_t>(t)] = static_cast<float>(budded);
+    double dead = 0;
+    for (int k = 1; k <= model.deadFrames(); ++k)
+      dead += post.state[static_cast<std::size_t>(t * S + model.deadState(k))];
+    out.pDead[static_cast<std::size_t>(t)] = static_cast<float>(dead);
+  }
+
+  // Review flags from what the classifier saw in informative frames.
+  int informative = 0, crowded = 0, empty = 0;
+  for (const auto& f : evidence) {
+    if (!f.informative) continue;
+    ++informative;
+    const int c = argmax4(f.occupancy);
+    crowded += c == kCrowded;
+    empty += c == kEmpty;
+  }
+  if (informative < review.informativeShare * T) out.flags.push_back(kFlagUninformative);
+  if (informative > 0 && crowded >= review.crowdedShare * informative) {
+    out.flags.push_back(kFlagCrowded);
+    return out;  // no events: nothing in this trap can be told apart
+  }
+  if (informative > 0 && empty >= review.emptyShare * informative) out.flags.push_back(kFlagEmpty);
+
+  // Arc between two consecutive Viterbi states (unique per state pair in CycleModel).
+  std::map<std::pair<int, int>, int> arcOf;
+  const auto& arcs = hmm.arcs();
+  for (std::size_t a = 0; a < arcs.size(); ++a)
+    arcOf.emplace(std::make_pair(arcs[a].from, arcs[a].to), static_cast<int>(a));
+  // Expected number of events of each kind entering frame t.
+  const std::size_t A = arcs.size();
+  std::array<std::vector<double>, 5> expected;
+  for (auto& v : expected) v.assign(static_cast<std::size_t>(T), 0.0);
+  for (int t = 1; t < T; ++t)
+    for (std::size_t a = 0; a < A; ++a) {
+      const double p = post.arc[static_cast<std::size_t>(t) * A + a];
+      if (p <= 0) continue;
+      for (EventKind k : eventsOf(static_cast<Transition>(arcs[a].tag)))
+        expected[static_cast<std::size_t>(k)][static_cast<std::size_t>(t)] += p;
+    }
+  for (int t = 1; t < T; ++t) {
+    const int from = out.path[static_cast<std::size_t>(t - 1)];
+    const int to = out.path[static_cast<std::size_t>(t)];
+    if (from == to && from != model.buddedState(model.buddedFrames())) continue;
+    const auto it = arcOf.find({from, to});
+    if (it == arcOf.end()) continue;
+    for (EventKind k : eventsOf(static_cast<Transition>(arcs[it->second].tag))) {
+      const auto& e = expected[static_cast<std::size_t>(k)];
+      double conf = 0;
+      for (int u = std::max(1, t - 1); u <= std::min(T - 1, t + 1); ++u)
+        conf += e[static_cast<std::size_t>(u)];
+      Event ev;
+      ev.position = position;
+      ev.trap = trap;
+      ev.frame = t;
+      ev.kind = k;
+      ev.confidence = std::clamp(conf, 0.0, 1.0);
+      out.events.push_back(ev);
+    }
+  }
+  return out;
+}
+
+PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
+                              const std::vector<TrapEvidence>& evidence,
+                              const ProposeOptions& options, const Progress& progress) {
+  if (trapIds.size() != evidence.size())
+    throw std::invalid_argument("proposePosition: one evidence track per trap");
+  PositionCalls out;
+  CycleParams cycle = options.cycle;
+  CycleModel model(cycle);
+  EmissionParams emission = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
+  const std::size_t n = evidence.size();
+  const int iterations = std::max(0, options.emIterations);
+  int workers = options.threads > 0 ? options.threads
+                                    : static_cast<int>(std::thread::hardware_concurrency());
+  workers = std::max(1, workers);
+
+  // Start: a mother is wherever the classifier sees anything; her live baseline and the
+  // spread of her morphology around it come from those frames.
+  std::vector<std::vector<float>> pLive(n);
+  for (std::size_t i = 0; i < n; ++i)
+    for (const auto& f : evidence[i])
+      pLive[i].push_back(f.informative ? static_cast<float>(1 - f.occupancy[kEmpty]) : 0.f);
+  std::vector<MorphBaseline> baselines(n);
+  auto updateBaselines = [&] {
+    const auto ref = liveReference(evidence, pLive);
+    for (std::size_t i = 0; i < n; ++i)
+      baselines[i].assign(ref.begin(), ref.begin() + static_cast<std::ptrdiff_t>(
+                                                       std::min(ref.size(), evidence[i].size())));
+  };
+  updateBaselines();
+  for (int j = 0; j < kMorphCount; ++j) {
+    std::vector<double> dev;
+    for (std::size_t i = 0; i < n; ++i)
+      for (std::size_t t = 0; t < evidence[i].size(); ++t) {
+        const double v = evidence[i][t].morph[static_cast<std::size_t>(j)];
+        const double b = baselines[i][t][static_cast<std::size_t>(j)];
+        if (pLive[i][t] > 0.5 && isKnown(v) && isKnown(b)) dev.push_back(std::abs(v - b));
+      }
+    if (dev.size() > 10) {
+      std::nth_element(dev.begin(), dev.begin() + static_cast<std::ptrdiff_t>(dev.size() / 2),
+                       dev.end());
+      const double sd = std::max(1e-6, 1.4826 * dev[dev.size() / 2]);
+      emission.morphLiveSigma[static_cast<std::size_t>(j)] = sd;
+      emission.morphDeadSigma[static_cast<std::size_t>(j)] = sd;
+    }
+  }
+  initialiseDeadMorphology(emission, evidence, baselines);
+  EmissionParams emissionPrior = emission;
+
+  // Baum-Welch rounds; the last `localRounds` compare each mother with her own local
+  // live baseline (fixed from the position-wide rounds' posteriors) to time death well.
+  const int localRounds = std::min(iterations, std::max(0, options.localBaselineRounds));
+  for (int it = 0; it < iterations; ++it) {
+    progress("temporal model", static_cast<double>(it) / (iterations + 1));
+    if (it == iterations - localRounds && localRounds > 0) {
+      const double window = options.localWindowMin / std::max(1e-9, cycle.intervalMin);
+      parallelFor(n, workers, [&](std::size_t i, int) {
+        baselines[i] = localBaseline(evidence[i], pLive[i], window);
+      });
+      emissionPrior = emission;
+      initialiseDeadMorphology(emission, evidence, baselines);
+    }
+    const bool positionWide = it < iterations - localRounds;
+    std::vector<EmissionStatistics> stats(
+        static_cast<std::size_t>(workers),
+        EmissionStatistics(model.buddedFrames(), model.deadFrames()));
+    std::vector<TransitionCounts> counts(static_cast<std::size_t>(workers));
+    std::vector<double> logL(static_cast<std::size_t>(workers), 0.0);
+    parallelFor(n, workers, [&](std::size_t i, int w) {
+      const auto& ev = evidence[i];
+      const int T = static_cast<int>(ev.size());
+      if (T == 0) return;
+      const auto em = emissionLogLikelihood(model, emission, ev, &baselines[i]);
+      const auto post = model.hmm().forwardBackward(em, T);
+      if (!std::isfinite(post.logLikelihood)) return;
+      stats[static_cast<std::size_t>(w)].add(model, emission, ev, post.state, &baselines[i]);
+      countTransitions(model, post, T, counts[static_cast<std::size_t>(w)]);
+      logL[static_cast<std::size_t>(w)] += post.logLikelihood;
+      if (!positionWide) return;
+      const int S = model.stateCount();
+      for (int t = 0; t < T; ++t) {
+        double live = 0;
+        for (int s = 0; s < S; ++s)
+          if (model.isLive(s)) live += post.state[static_cast<std::size_t>(t * S + s)];
+        pLive[i][static_cast<std::size_t>(t)] = static_cast<float>(live);
+      }
+    });
+    for (int w = 1; w < workers; ++w) {
+      stats[0].merge(stats[static_cast<std::size_t>(w)]);
+      counts[0].merge(counts[static_cast<std::size_t>(w)]);
+    }
+    emission = stats[0].estimate(emissionPrior, options.emissionPriorWeight);
+    cycle = reestimate(options.cycle, counts[0], options.transitionPriorWeight);
+    model = CycleModel(cycle);
+    if (positionWide) updateBaselines();
+    out.logLikelihood = 0;
+    for (double l : logL) out.logLikelihood += l;
+  }
+
+  progress("temporal model", static_cast<double>(iterations) / (iterations + 1));
+  out.traps.resize(n);
+  parallelFor(n, workers, [&](std::size_t i, int) {
+    out.traps[i] = decodeTrap(position, trapIds[i], model, emission, evidence[i], options.review,
+                              &baselines[i]);
+  });
+  out.cycle = cycle;
+  out.emission = emission;
+  out.buddedFrames = model.buddedFrames();
+  progress("temporal model", 1.0);
+  return out;
+}
+
+}  // namespace budledger::propose

@@ -1,0 +1,72 @@
+#pragma once
+// proposePosition: the temporal model applied to every trap of one position.
+// Parameters that differ between experiments (how long G1 and the budded
+// phase last, how the classifier's output maps to states, bud growth) are
+// re-estimated from the position's own evidence by a few Baum-Welch rounds
+// pooled over its traps, starting from common-practice defaults; then each
+// trap is decoded with Viterbi and each event gets its posterior probability
+// (forward-backward) of happening within one frame of the call.
+//
+// Invariants: events are per trap in frame order; a trap flagged
+// crowded-throughout gets no events (nothing can be told apart in it); every
+// confidence is in [0, 1].
+#include <string>
+#include <vector>
+
+#include "core/base/events.h"
+#include "core/base/progress.h"
+#include "core/propose/cycle_model.h"
+#include "core/propose/emission.h"
+#include "core/propose/evidence.h"
+
+namespace budledger::propose {
+
+struct ReviewRules {
+  double crowdedShare = 0.8;      // of informative frames called crowded: no events
+  double emptyShare = 0.98;       // of informative frames called empty: never occupied
+  double informativeShare = 0.5;  // fewer informative frames than this: flagged
+};
+
+struct ProposeOptions {
+  CycleParams cycle;
+  int emIterations = 6;
+  int localBaselineRounds = 2;      // last rounds compare a mother with her own live frames
+  double localWindowMin = 300;      // reach of that local baseline
+  double emissionPriorWeight = 200;   // pseudo-counts per confusion row
+  double transitionPriorWeight = 20;  // pseudo-counts per duration estimate
+  ReviewRules review;
+  int threads = 0;  // 0: all hardware threads
+};
+
+// Review flags a trap can carry (the measurements' features JSON key "review").
+inline constexpr const char* kFlagCrowded = "crowded-throughout";
+inline constexpr const char* kFlagEmpty = "never-occupied";
+inline constexpr const char* kFlagUninformative = "mostly-uninformative";
+
+struct TrapCalls {
+  int trap = 0;
+  std::vector<Event> events;
+  std::vector<std::string> flags;
+  std::vector<int> path;                     // Viterbi state per frame
+  std::vector<float> pLive, pBudded, pDead;  // posterior per frame
+};
+
+struct PositionCalls {
+  std::vector<TrapCalls> traps;
+  CycleParams cycle;        // after re-estimation
+  EmissionParams emission;  // after re-estimation
+  int buddedFrames = 0;
+  double logLikelihood = 0;
+};
+
+// `evidence[i]` belongs to trap `trapIds[i]`; all traps have the same frame count.
+PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
+                              const std::vector<TrapEvidence>& evidence,
+                              const ProposeOptions& options, const Progress& progress = {});
+
+// Decodes one trap under a fixed model (no re-estimation).
+TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
+                     const EmissionParams& emission, const TrapEvidence& evidence,
+                     const ReviewRules& review, const MorphBaseline* baseline = nullptr);
+
+}  // namespace budledger::propose
