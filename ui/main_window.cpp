@@ -16,6 +16,7 @@
 
 #include "budledger/version.h"
 #include "ui/counted.h"
+#include "ui/edit_commands.h"
 #include "ui/levels_bar.h"
 #include "ui/recent_projects.h"
 #include "ui/results_panel.h"
@@ -68,6 +69,10 @@ MainWindow::MainWindow(QSettings& settings, MainWindowOptions options, QWidget* 
 
   TimeStripView* s = strips();
   connect(s, &TimeStripView::cursorChanged, this, &MainWindow::onCursorChanged);
+  edits_ = new EditCommands(settings_, s, this);
+  connect(edits_, &EditCommands::said, this, &MainWindow::say);
+  connect(s, &TimeStripView::moveRequested, this,
+          [this](std::int64_t id, int frame) { edits_->moveTo(id, frame); });
   connect(workspace_, &StripWorkspace::zoomInClicked, this, [this] { run(Command::ZoomIn); });
   connect(workspace_, &StripWorkspace::zoomOutClicked, this, [this] { run(Command::ZoomOut); });
   connect(workspace_, &StripWorkspace::zoomFitClicked, this, [this] { run(Command::ZoomFit); });
@@ -217,6 +222,7 @@ void MainWindow::rebuildRecentMenu() {
 }
 
 void MainWindow::closeProject() {
+  edits_->setSession(nullptr);
   strips()->setSession(nullptr);
   strips()->setLoader(nullptr);
   trapImage_->setSession(nullptr);
@@ -268,6 +274,11 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   }
   strips()->setSession(session_.get());
   strips()->setLoader(loader_.get());
+  edits_->setSession(session_.get());
+  connect(session_.get(), &ReviewSession::edited, this, [this] {
+    updateEditability();
+    if (auto t = strips()->currentTrap()) onCursorChanged(*t, strips()->cursorFrame());
+  });
   strips()->setEditable(!session_->readOnly());
   trapImage_->setSession(session_.get());
   trapImage_->setLoader(loader_.get());
@@ -289,10 +300,11 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
     strips()->zoomToCrops();
   else
     strips()->zoomToFit();
-  workspace_->showBanner(session_->readOnly()
-                             ? tr("Read-only: another BudLedger holds this project. You can look "
-                                  "but not edit; close it there to edit here.")
-                             : QString());
+  workspace_->showBanner(
+      session_->readOnly()
+          ? tr("Read-only — %1. You can look but not edit; close it there to edit here.")
+                .arg(session_->readOnlyReason())
+          : QString());
   setWindowTitle(tr("%1 — BudLedger").arg(QFileInfo(path).fileName()));
   RecentProjects(settings_).add(path);
   rebuildRecentMenu();
@@ -315,10 +327,16 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
 }
 
 void MainWindow::updateEditability() {
-  // Editing needs the journal of core/store; until a session can record edits, they stay off.
-  const bool canEdit = false;
+  const bool canEdit = session_ && !session_->readOnly();
   for (auto& [c, a] : actions_)
     if (isEdit(c)) a->setEnabled(canEdit);
+  if (!canEdit) return;
+  // Undo and redo name what they would do, in the menu and the tooltip.
+  const QString u = session_->nextUndo(), r = session_->nextRedo();
+  action(Command::Undo)->setEnabled(!u.isEmpty());
+  action(Command::Undo)->setText(u.isEmpty() ? tr("Undo") : tr("Undo %1").arg(u));
+  action(Command::Redo)->setEnabled(!r.isEmpty());
+  action(Command::Redo)->setText(r.isEmpty() ? tr("Redo") : tr("Redo %1").arg(r));
 }
 
 void MainWindow::showPosition(int position) {
@@ -415,7 +433,7 @@ void MainWindow::run(Command c) {
       autoLevels();
       break;
     default:
-      if (isEdit(c)) say(tr("Editing is not available in this build"));
+      if (isEdit(c)) edits_->run(c);
       break;
   }
   if (!isEdit(c) && c != Command::NextQueueItem && c != Command::PreviousQueueItem)

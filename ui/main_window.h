@@ -22,6 +22,7 @@ class QMenu;
 
 namespace budledger::ui {
 
+class EditCommands;
 class ResultsPanel;
 class ReviewQueuePanel;
 class StripWorkspace;
@@ -64,6 +65,7 @@ class MainWindow : public QMainWindow {
   SurvivalPlot* survivalPlot() const { return survivalPlot_; }
   ThumbnailLoader* loader() const { return loader_.get(); }
   KeyMap& keyMap() { return keyMap_; }
+  EditCommands* edits() const { return edits_; }
   QAction* action(Command c) const;
   // Carries out a command as its key would.
   void run(Command c);
@@ -101,6 +103,7 @@ class MainWindow : public QMainWindow {
   TrapImageView* trapImage_ = nullptr;
   SurvivalModel* survival_ = nullptr;
   SurvivalPlot* survivalPlot_ = nullptr;
+  EditCommands* edits_ = nullptr;
   QLabel* cursorLabel_ = nullptr;
   QMenu* recentMenu_ = nullptr;
   QMenu* viewMenu_ = nullptr;

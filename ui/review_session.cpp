@@ -1,9 +1,71 @@
 #include "ui/review_session.h"
 
+#include <nlohmann/json.hpp>
+
 #include <QCoreApplication>
 #include <algorithm>
 
+#include "core/store/lifespans.h"
+#include "core/store/materialised.h"
+
 namespace budledger::ui {
+
+namespace {
+
+Decision decisionOf(store::EventStatus s) {
+  switch (s) {
+    case store::EventStatus::Proposed:
+      return Decision::Proposed;
+    case store::EventStatus::Accepted:
+      return Decision::Accepted;
+    case store::EventStatus::Moved:
+      return Decision::Moved;
+    case store::EventStatus::Added:
+      return Decision::Added;
+    case store::EventStatus::Rejected:
+      return Decision::Rejected;
+  }
+  return Decision::Proposed;
+}
+
+store::EventStatus statusOf(Decision d) {
+  switch (d) {
+    case Decision::Proposed:
+      return store::EventStatus::Proposed;
+    case Decision::Accepted:
+      return store::EventStatus::Accepted;
+    case Decision::Moved:
+      return store::EventStatus::Moved;
+    case Decision::Added:
+      return store::EventStatus::Added;
+    case Decision::Rejected:
+      return store::EventStatus::Rejected;
+  }
+  return store::EventStatus::Proposed;
+}
+
+ReviewEvent fromCurrent(const store::CurrentEvent& c) {
+  ReviewEvent e;
+  e.event = c.event;
+  e.decision = decisionOf(c.status);
+  if (c.status == store::EventStatus::Moved) e.proposedFrame = c.proposedFrame;
+  return e;
+}
+
+void sortByFrame(std::vector<ReviewEvent>& list) {
+  std::stable_sort(list.begin(), list.end(), [](const ReviewEvent& a, const ReviewEvent& b) {
+    return a.event.frame < b.event.frame;
+  });
+}
+
+std::string text(const QString& s) { return s.toStdString(); }
+
+QString describe(const store::JournalEntry& e) {
+  return QStringLiteral("%1 %2").arg(QString::fromStdString(std::string(toString(e.action))),
+                                     QString::fromStdString(e.target));
+}
+
+}  // namespace
 
 QString reviewStateName(ReviewState s) {
   switch (s) {
@@ -25,14 +87,16 @@ ReviewSession::ReviewSession(const QString& path, store::Database::Access access
   loadAll();
 }
 
-ReviewSession::~ReviewSession() = default;
+ReviewSession::~ReviewSession() {
+  editor_.reset();  // before the project it refers to
+}
 
 QString ReviewSession::path() const { return QString::fromStdString(project_->path()); }
 
 void ReviewSession::loadAll() {
   positions_ = project_->positions();
   for (const auto& p : positions_) traps_[p.id] = project_->traps(p.id);
-  if (auto v = project_->meta("interval_min")) {
+  if (auto v = project_->meta(store::kMetaIntervalMin)) {
     try {
       const double m = std::stod(*v);
       if (m > 0) intervalMinutes_ = m;
@@ -40,22 +104,59 @@ void ReviewSession::loadAll() {
       // An unreadable interval only costs the clock labels; frames still show.
     }
   }
-  if (auto run = project_->latestRun()) run_ = run->id;
-  for (const Event& e : project_->proposals(run_)) {
-    ReviewEvent re;
-    re.event = e;
-    re.decision = Decision::Proposed;
-    events_[{e.position, e.trap}].push_back(re);
+  if (auto run = project_->latestRun()) {
+    run_ = run->id;
+    // The engine's per-trap review flags live in the run's parameters.
+    try {
+      const auto params = nlohmann::json::parse(run->parametersJson);
+      if (params.contains("positions"))
+        for (const auto& p : params["positions"])
+          for (const auto& f : p.value("trap_flags", nlohmann::json::array()))
+            engineFlags_[{p.value("position", 0), f.value("trap", 0)}].push_back(
+                QString::fromStdString(f.value("reason", std::string())));
+    } catch (const std::exception&) {
+      // Flags are a help for ordering the queue; a run without them is fine.
+    }
   }
-  for (auto& [trap, list] : events_)
-    std::stable_sort(list.begin(), list.end(), [](const ReviewEvent& a, const ReviewEvent& b) {
-      return a.event.frame < b.event.frame;
-    });
+  for (const auto& c : store::currentEvents(project_->db()))
+    events_[{c.event.position, c.event.trap}].push_back(fromCurrent(c));
+  for (auto& [trap, list] : events_) sortByFrame(list);
+  overrides_ = store::outcomeOverrides(project_->db());
+  signOffs_ = store::signOffs(project_->db());
+  // Made up front so that undo and redo reach back into earlier sessions' edits.
+  if (!project_->readOnly()) editor_ = std::make_unique<store::Editor>(*project_);
+}
+
+store::Editor& ReviewSession::editor() {
+  project_->requireWritable();
+  if (!editor_) editor_ = std::make_unique<store::Editor>(*project_);
+  return *editor_;
 }
 
 void ReviewSession::reloadTrap(TrapId trap) {
+  auto& list = events_[trap];
+  list.clear();
+  for (const auto& c :
+       store::currentEvents(project_->db(), store::TrapRef{trap.position, trap.trap}))
+    list.push_back(fromCurrent(c));
+  sortByFrame(list);
   tenures_.erase(trap);
-  emit trapChanged(trap);
+}
+
+void ReviewSession::afterChange(const store::Change& change) {
+  if (!change.recorded()) return;
+  overrides_ = store::outcomeOverrides(project_->db());
+  signOffs_ = store::signOffs(project_->db());
+  std::vector<TrapId> touched;
+  for (const auto& t : change.traps) touched.push_back({t.position, t.trap});
+  // A sign-off or revocation over a position or the experiment changes the
+  // lock of every trap it covers, though it names none.
+  if (change.action == store::JournalAction::SignOff ||
+      change.action == store::JournalAction::Revoke)
+    if (touched.empty()) touched = allTraps();
+  for (const TrapId t : touched) reloadTrap(t);
+  for (const TrapId t : touched) emit trapChanged(t);
+  emit edited(QString::fromStdString(change.summary), change.seq);
 }
 
 const store::PositionRecord* ReviewSession::position(int id) const {
@@ -98,14 +199,33 @@ const ReviewEvent* ReviewSession::event(std::int64_t id) const {
 const std::vector<lineage::Tenure>& ReviewSession::tenures(TrapId trap) const {
   auto it = tenures_.find(trap);
   if (it != tenures_.end()) return it->second;
-  std::vector<Event> counted;
-  for (const auto& e : events(trap))
-    if (e.counts()) counted.push_back(e.event);
-  auto result = lineage::tenuresFromEvents(std::move(counted), frameCount(trap.position));
-  return tenures_.emplace(trap, std::move(result.tenures)).first->second;
+  std::vector<store::CurrentEvent> current;
+  for (const auto& e : events(trap)) {
+    store::CurrentEvent c;
+    c.event = e.event;
+    c.status = statusOf(e.decision);
+    current.push_back(c);
+  }
+  auto list = store::tenuresInScope(current, overrides_, positions_,
+                                    store::Scope::ofTrap(trap.position, trap.trap));
+  return tenures_.emplace(trap, std::move(list)).first->second;
+}
+
+std::vector<store::SignOffRecord> ReviewSession::activeSignOffs() const {
+  std::vector<store::SignOffRecord> out;
+  for (const auto& s : signOffs_)
+    if (s.active()) out.push_back(s);
+  return out;
+}
+
+bool ReviewSession::locked(TrapId trap) const {
+  return std::any_of(signOffs_.begin(), signOffs_.end(), [&](const store::SignOffRecord& s) {
+    return s.active() && s.scope.covers({trap.position, trap.trap});
+  });
 }
 
 ReviewState ReviewSession::reviewState(TrapId trap) const {
+  if (locked(trap)) return ReviewState::SignedOff;
   const auto& list = events(trap);
   const auto open = std::count_if(list.begin(), list.end(), [](const ReviewEvent& e) {
     return e.decision == Decision::Proposed;
@@ -127,6 +247,100 @@ const std::vector<store::DriftRecord>& ReviewSession::drift(int positionId) cons
   auto it = drift_.find(positionId);
   if (it != drift_.end()) return it->second;
   return drift_.emplace(positionId, project_->drift(positionId)).first->second;
+}
+
+std::vector<QString> ReviewSession::engineFlags(TrapId trap) const {
+  auto it = engineFlags_.find(trap);
+  return it == engineFlags_.end() ? std::vector<QString>{} : it->second;
+}
+
+// ---- edits ------------------------------------------------------------------
+
+store::Change ReviewSession::accept(std::int64_t id, const QString& reason) {
+  const auto c = editor().accept(actor_, id, text(reason));
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::reject(std::int64_t id, const QString& reason) {
+  const auto c = editor().reject(actor_, id, text(reason));
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::move(std::int64_t id, int frame, const QString& reason) {
+  const auto c = editor().move(actor_, id, frame, text(reason));
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::add(TrapId trap, int frame, EventKind kind, const QString& reason) {
+  const auto c =
+      editor().add(actor_, store::TrapRef{trap.position, trap.trap}, frame, kind, text(reason));
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::setOutcome(TrapId trap, int mother, Outcome outcome,
+                                        const QString& reason) {
+  const auto c = editor().setOutcome(actor_, store::TenureKey{trap.position, trap.trap, mother},
+                                     outcome, text(reason));
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::note(const store::Target& target, const QString& body,
+                                  const QString& reason) {
+  const auto c = editor().note(actor_, target, text(body), text(reason));
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::undo() {
+  const auto c = editor().undo(actor_);
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::redo() {
+  const auto c = editor().redo(actor_);
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::signOff(const store::Scope& scope, store::SignMeaning meaning,
+                                     const QString& reason) {
+  const auto c = editor().signOff(actor_, scope, meaning, text(reason));
+  afterChange(c);
+  return c;
+}
+
+store::Change ReviewSession::revoke(std::int64_t signOffId, const QString& reason) {
+  const auto c = editor().revoke(actor_, signOffId, text(reason));
+  afterChange(c);
+  return c;
+}
+
+int ReviewSession::acceptConfident(TrapId trap, double minConfidence, const QString& reason) {
+  std::vector<std::int64_t> ids;
+  for (const auto& e : events(trap))
+    if (e.decision == Decision::Proposed && e.event.confidence >= minConfidence)
+      ids.push_back(e.event.id);
+  int n = 0;
+  for (const auto id : ids) n += accept(id, reason).recorded() ? 1 : 0;
+  return n;
+}
+
+QString ReviewSession::nextUndo() const {
+  if (readOnly() || !editor_) return {};
+  const auto e = editor_->nextUndo();
+  return e ? describe(*e) : QString();
+}
+
+QString ReviewSession::nextRedo() const {
+  if (readOnly() || !editor_) return {};
+  const auto e = editor_->nextRedo();
+  return e ? describe(*e) : QString();
 }
 
 }  // namespace budledger::ui

@@ -177,16 +177,6 @@ class StripNavigationTest : public QObject {
     QVERIFY(cached > 0);
   }
 
-  void editKeysDoNothingWithoutAJournal() {
-    const auto before = window_->session()->events(*strips()->currentTrap());
-    QTest::keyClick(strips(), Qt::Key_BracketRight);
-    QTest::keyClick(strips(), Qt::Key_Return);
-    QTest::keyClick(strips(), Qt::Key_B);
-    const auto& after = window_->session()->events(*strips()->currentTrap());
-    QCOMPARE(after.size(), before.size());
-    QCOMPARE(after.front().decision, ui::Decision::Proposed);
-  }
-
  private:
   ui::TimeStripView* strips() const { return window_->strips(); }
 
