@@ -15,13 +15,16 @@
 #include <QTreeView>
 
 #include "budledger/version.h"
+#include "ui/audit_trail_panel.h"
 #include "ui/counted.h"
 #include "ui/edit_commands.h"
+#include "ui/identity.h"
 #include "ui/levels_bar.h"
 #include "ui/recent_projects.h"
 #include "ui/results_panel.h"
 #include "ui/review_queue_panel.h"
 #include "ui/shortcuts_dialog.h"
+#include "ui/sign_off_dialog.h"
 #include "ui/strip_workspace.h"
 #include "ui/survival_model.h"
 #include "ui/survival_plot.h"
@@ -147,6 +150,21 @@ void MainWindow::buildDocks() {
     survivalPlot_->setNote(survival_->comparison());
   });
 
+  audit_ = new AuditTrailPanel(this);
+  auto* auditDock = new QDockWidget(tr("Audit trail"), this);
+  auditDock->setObjectName(QStringLiteral("auditDock"));
+  auditDock->setWidget(audit_);
+  addDockWidget(Qt::BottomDockWidgetArea, auditDock);
+  auditDock->hide();  // View → Audit trail; it takes room the strips need while proofreading
+  connect(audit_, &AuditTrailPanel::eventChosen, this, [this](std::int64_t id) {
+    if (!session_) return;
+    if (const ReviewEvent* e = session_->event(id)) {
+      goToTrap({e->event.position, e->event.trap}, e->event.frame);
+      strips()->selectEvent(id);
+      strips()->setFocus();
+    }
+  });
+
   connect(trapPanel_, &TrapListPanel::trapChosen, this, [this](TrapId t) {
     goToTrap(t, std::nullopt);
     strips()->setFocus();
@@ -205,6 +223,10 @@ void MainWindow::buildMenus() {
   viewMenu_->addSeparator();
   for (QDockWidget* d : findChildren<QDockWidget*>()) viewMenu_->addAction(d->toggleViewAction());
 
+  QMenu* review = menuBar()->addMenu(tr("&Review"));
+  review->addAction(tr("&Sign off…"), this, &MainWindow::showSignOff);
+  review->addAction(tr("&Who is reviewing…"), this, &MainWindow::chooseIdentity);
+
   QMenu* help = menuBar()->addMenu(tr("&Help"));
   QAction* keys = help->addAction(tr("&Keyboard shortcuts"), this, &MainWindow::showShortcuts);
   keys->setShortcut(QKeySequence(Qt::Key_F1));
@@ -229,6 +251,7 @@ void MainWindow::closeProject() {
   trapImage_->setLoader(nullptr);
   results_->setSession(nullptr);
   survival_->setSession(nullptr);
+  audit_->setDatabase(nullptr);
   queuePanel_->model()->setSession(nullptr);
   trapPanel_->setSession(nullptr, nullptr);
   loader_.reset();
@@ -275,7 +298,9 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   strips()->setSession(session_.get());
   strips()->setLoader(loader_.get());
   edits_->setSession(session_.get());
+  audit_->setDatabase(&session_->project().db());
   connect(session_.get(), &ReviewSession::edited, this, [this] {
+    audit_->refresh();
     updateEditability();
     if (auto t = strips()->currentTrap()) onCursorChanged(*t, strips()->cursorFrame());
   });
@@ -456,6 +481,26 @@ void MainWindow::autoLevels() {
   } catch (const std::exception& e) {
     QMessageBox::warning(this, tr("Cannot read images"), QString::fromStdString(e.what()));
   }
+}
+
+void MainWindow::showSignOff() {
+  if (!session_) {
+    say(tr("Open a project first"));
+    return;
+  }
+  SignOffDialog dialog(*session_, Identity::load(settings_), strips()->currentTrap(), this);
+  connect(&dialog, &SignOffDialog::said, this, &MainWindow::say);
+  dialog.exec();
+  edits_->setSession(session_.get());  // the technician's identity again for the next edits
+}
+
+void MainWindow::chooseIdentity() {
+  IdentityDialog dialog(Identity::load(settings_),
+                        tr("The journal records this name and role with every decision."), this);
+  if (dialog.exec() != QDialog::Accepted) return;
+  dialog.identity().save(settings_);
+  if (session_) edits_->setSession(session_.get());
+  say(tr("Reviewing as %1 (%2)").arg(dialog.identity().name, dialog.identity().role));
 }
 
 void MainWindow::say(const QString& message) { statusBar()->showMessage(message, kStatusMs); }

@@ -22,6 +22,7 @@ class QMenu;
 
 namespace budledger::ui {
 
+class AuditTrailPanel;
 class EditCommands;
 class ResultsPanel;
 class ReviewQueuePanel;
@@ -66,6 +67,10 @@ class MainWindow : public QMainWindow {
   ThumbnailLoader* loader() const { return loader_.get(); }
   KeyMap& keyMap() { return keyMap_; }
   EditCommands* edits() const { return edits_; }
+  AuditTrailPanel* auditTrail() const { return audit_; }
+  // Review → Sign off… and Review → Who is reviewing… (modal dialogs).
+  void showSignOff();
+  void chooseIdentity();
   QAction* action(Command c) const;
   // Carries out a command as its key would.
   void run(Command c);
@@ -104,6 +109,7 @@ class MainWindow : public QMainWindow {
   SurvivalModel* survival_ = nullptr;
   SurvivalPlot* survivalPlot_ = nullptr;
   EditCommands* edits_ = nullptr;
+  AuditTrailPanel* audit_ = nullptr;
   QLabel* cursorLabel_ = nullptr;
   QMenu* recentMenu_ = nullptr;
   QMenu* viewMenu_ = nullptr;

@@ -81,7 +81,7 @@ class MainWindowTest : public QObject {
     for (QAction* a : w.menuBar()->actions()) titles << a->text().remove(QLatin1Char('&'));
     QCOMPARE(titles, (QStringList{QStringLiteral("File"), QStringLiteral("Edit"),
                                   QStringLiteral("Navigate"), QStringLiteral("View"),
-                                  QStringLiteral("Help")}));
+                                  QStringLiteral("Review"), QStringLiteral("Help")}));
   }
 
  private:
