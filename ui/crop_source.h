@@ -5,6 +5,7 @@
 // Implementations must be safe to call from several worker threads at once,
 // and report unreadable input by throwing (InputError naming file and frame).
 #include <QImage>
+#include <QPointF>
 #include <QSize>
 
 #include "ui/review_event.h"
@@ -20,6 +21,9 @@ class CropSource {
   // Format_Grayscale16 or Format_Grayscale8 at cropSize(); raw intensities
   // (display levels are applied by the loader).
   virtual QImage crop(TrapId trap, int frame) const = 0;
+  // Where pixel (0, 0) of the engine's crop of this position falls in these
+  // crops, so measured cell positions can be drawn on them.
+  virtual QPointF measurementOrigin(int /*position*/) const { return {0, 0}; }
 };
 
 }  // namespace budledger::ui

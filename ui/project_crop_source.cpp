@@ -109,6 +109,7 @@ std::shared_ptr<ProjectCropSource> ProjectCropSource::open(store::Project& proje
         p->drift[static_cast<size_t>(d.frame)] = {d.dx, d.dy};
     p->prototype = openInputs(project, pos);
     const cv::Rect box = cropBoxFor(project, pos);
+    src->engineBoxes_[pos.id] = box;
     w = std::max(w, box.width);
     h = std::max(h, box.height);
     src->positions_.emplace(pos.id, std::move(p));
@@ -119,6 +120,12 @@ std::shared_ptr<ProjectCropSource> ProjectCropSource::open(store::Project& proje
 }
 
 ProjectCropSource::~ProjectCropSource() = default;
+
+QPointF ProjectCropSource::measurementOrigin(int position) const {
+  auto it = engineBoxes_.find(position);
+  if (it == engineBoxes_.end()) return {0, 0};
+  return {static_cast<double>(it->second.x - box_.x), static_cast<double>(it->second.y - box_.y)};
+}
 
 std::shared_ptr<const cv::Mat> ProjectCropSource::frame(const Position& p, int frame) const {
   {

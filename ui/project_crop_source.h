@@ -34,6 +34,7 @@ class ProjectCropSource : public CropSource {
 
   QSize cropSize() const override { return {box_.width, box_.height}; }
   QImage crop(TrapId trap, int frame) const override;
+  QPointF measurementOrigin(int position) const override;
   // The crop as core sees it (CV_8U or CV_16U), for tests.
   cv::Mat cropMat(TrapId trap, int frame) const;
 
@@ -49,6 +50,7 @@ class ProjectCropSource : public CropSource {
   std::shared_ptr<const cv::Mat> frame(const Position& p, int frame) const;
 
   std::map<int, std::unique_ptr<Position>> positions_;
+  std::map<int, cv::Rect> engineBoxes_;  // each position's own crop box
   cv::Rect box_;
   ProjectCropOptions options_;
 

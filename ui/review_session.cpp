@@ -249,6 +249,20 @@ const std::vector<store::DriftRecord>& ReviewSession::drift(int positionId) cons
   return drift_.emplace(positionId, project_->drift(positionId)).first->second;
 }
 
+std::optional<double> ReviewSession::pixelUm(int positionId) const {
+  const auto* pos = position(positionId);
+  std::optional<std::string> v;
+  if (pos) v = project_->meta("position." + pos->name + "." + store::kMetaPixelUm);
+  if (!v) v = project_->meta(store::kMetaPixelUm);
+  if (!v) return std::nullopt;
+  try {
+    const double um = std::stod(*v);
+    return um > 0 ? std::optional(um) : std::nullopt;
+  } catch (const std::exception&) {
+    return std::nullopt;
+  }
+}
+
 std::vector<QString> ReviewSession::engineFlags(TrapId trap) const {
   auto it = engineFlags_.find(trap);
   return it == engineFlags_.end() ? std::vector<QString>{} : it->second;

@@ -49,6 +49,8 @@ class ReviewSession : public QObject {
   int frameCount(int position) const;
   // Minutes between frames, when the project records it.
   std::optional<double> intervalMinutes() const { return intervalMinutes_; }
+  // Micrometres per pixel of a position, when recorded.
+  std::optional<double> pixelUm(int position) const;
 
   // Current events of a trap in frame order (empty when none).
   const std::vector<ReviewEvent>& events(TrapId trap) const;

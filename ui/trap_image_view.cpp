@@ -1,5 +1,7 @@
 #include "ui/trap_image_view.h"
 
+#include <nlohmann/json.hpp>
+
 #include <QPaintEvent>
 #include <QPainter>
 #include <algorithm>
@@ -26,15 +28,45 @@ void TrapImageView::setLoader(ThumbnailLoader* loader) {
   update();
 }
 
+std::vector<CellOutline> cellsFromFeatures(const std::string& featuresJson, double pixelUm,
+                                           QPointF origin) {
+  std::vector<CellOutline> out;
+  if (!(pixelUm > 0)) return out;
+  try {
+    const auto j = nlohmann::json::parse(featuresJson);
+    if (!j.contains("cells")) return out;
+    for (const auto& c : j["cells"]) {
+      CellOutline cell;
+      cell.centre = QPointF(c.value("x", 0.0), c.value("y", 0.0)) + origin;
+      cell.radiusPx = c.value("diameter_um", 0.0) / pixelUm / 2.0;
+      const std::string role = c.value("role", std::string());
+      cell.role = role == "mother" ? CellOutline::Role::Mother
+                  : role == "bud"  ? CellOutline::Role::Bud
+                                   : CellOutline::Role::Other;
+      if (cell.radiusPx > 0) out.push_back(cell);
+    }
+  } catch (const std::exception&) {
+    // A reading the workstation cannot parse shows no outlines rather than a wrong one.
+    out.clear();
+  }
+  return out;
+}
+
 void TrapImageView::showFrame(TrapId trap, int frame) {
   trap_ = trap;
   frame_ = frame;
   cells_.clear();
-  update();
-}
-
-void TrapImageView::setCells(std::vector<CellOutline> cells) {
-  cells_ = std::move(cells);
+  if (session_) {
+    const auto um = session_->pixelUm(trap.position);
+    const QPointF origin = loader_ && loader_->source()
+                               ? loader_->source()->measurementOrigin(trap.position)
+                               : QPointF();
+    for (const auto& m : session_->measurements(trap))
+      if (m.frame == frame && um) {
+        cells_ = cellsFromFeatures(m.featuresJson, *um, origin);
+        break;
+      }
+  }
   update();
 }
 
@@ -104,18 +136,20 @@ void TrapImageView::paintEvent(QPaintEvent*) {
   const double s = target.width() / native.width();
   p.setRenderHint(QPainter::Antialiasing);
   for (const auto& c : cells_) {
-    QPolygonF poly;
-    for (const QPointF& pt : c.outline)
-      poly << QPointF(target.left() + (pt.x() + 0.5) * s, target.top() + (pt.y() + 0.5) * s);
+    const QPointF at(target.left() + c.centre.x() * s, target.top() + c.centre.y() * s);
+    const double r = c.radiusPx * s;
     const QColor colour = c.role == CellOutline::Role::Mother ? glyphs::kindColour(EventKind::Death)
                           : c.role == CellOutline::Role::Bud  ? glyphs::kindColour(EventKind::Bud)
                                                               : QColor(0x56, 0xB4, 0xE9);
-    // Dashes for buds and others, solid for the mother: tells roles apart without colour.
-    p.setPen(QPen(Qt::white, 3.5));
+    // Solid for the mother, dashed for buds, dotted for others: roles read without colour.
+    const Qt::PenStyle style = c.role == CellOutline::Role::Mother ? Qt::SolidLine
+                               : c.role == CellOutline::Role::Bud  ? Qt::DashLine
+                                                                   : Qt::DotLine;
     p.setBrush(Qt::NoBrush);
-    p.drawPolygon(poly);
-    p.setPen(QPen(colour, 2.0, c.role == CellOutline::Role::Mother ? Qt::SolidLine : Qt::DashLine));
-    p.drawPolygon(poly);
+    p.setPen(QPen(Qt::white, 4.0));
+    p.drawEllipse(at, r, r);
+    p.setPen(QPen(colour, 2.2, style));
+    p.drawEllipse(at, r, r);
   }
   p.setPen(QPen(QColor(0x88, 0x88, 0x88), 1));
   p.setBrush(Qt::NoBrush);

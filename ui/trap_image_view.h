@@ -5,9 +5,10 @@
 // ThumbnailLoader at native crop size (so it is made off the UI thread and
 // shares the cache and display levels with the strips); upscaling uses
 // nearest neighbour so a proofreader sees real pixels.
-#include <QPolygonF>
+#include <QPointF>
 #include <QWidget>
 #include <optional>
+#include <string>
 #include <vector>
 
 #include "ui/review_session.h"
@@ -15,12 +16,20 @@
 
 namespace budledger::ui {
 
-// One measured cell, in crop pixel coordinates.
+// One measured cell, in crop pixel coordinates: the engine records a
+// centroid and an equivalent-area diameter, so cells are drawn as circles.
 struct CellOutline {
   enum class Role { Mother, Bud, Other };
-  QPolygonF outline;
+  QPointF centre;
+  double radiusPx = 0;
   Role role = Role::Other;
 };
+
+// The cells of a measurement's features JSON ({"cells":[{"x","y",
+// "diameter_um","role"}…]}), moved by `origin` into the view's crop; empty
+// when the JSON has none or cannot be read.
+std::vector<CellOutline> cellsFromFeatures(const std::string& featuresJson, double pixelUm,
+                                           QPointF origin);
 
 class TrapImageView : public QWidget {
   Q_OBJECT
@@ -33,8 +42,9 @@ class TrapImageView : public QWidget {
     update();
   }
   void setLoader(ThumbnailLoader* loader);
+  // Shows a trap at a frame, with the cells the engine measured there.
   void showFrame(TrapId trap, int frame);
-  void setCells(std::vector<CellOutline> cells);
+  const std::vector<CellOutline>& cells() const { return cells_; }
   // What the caption says (for tests and the status line).
   QString caption() const;
   QSize sizeHint() const override { return {300, 360}; }
