@@ -121,6 +121,7 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     out.note = "no trap lattice in the survey frames: registered on the whole image";
   }
   registration::Registrar registrar(referenceFrame, structure, reg);
+  bool secondLook = options.secondLook;
   registration::TrackOptions track = options.tracking;
   track.referenceFrame = reference;
   registration::DriftTracker tracker(registrar, track);
@@ -149,6 +150,30 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     }
   }
   out.drift = tracker.finish();
+  const cv::Point2d raw0 = tracker.rawShift(0);  // frame 0 against the reference
+  // Where the structure persists over the whole movie: the weights of the
+  // second look, which no longer count cells that sit in most traps.
+  if (!structure.empty() && options.secondLook && kept.size() >= 5) {
+    const int rw = std::min(info.width, 384), rh = std::min(info.height, 384);
+    const cv::Rect region((info.width - rw) / 2, (info.height - rh) / 2, rw, rh);
+    const cv::Point2d centre(region.x + rw / 2, region.y + rh / 2);
+    const cv::Rect box(-rw / 2, -rh / 2, rw, rh);
+    std::vector<cv::Mat> features;
+    cv::Mat patch;
+    for (const auto& [f, m] : kept) {
+      const auto& d = out.drift[static_cast<size_t>(f)];
+      traps::cropAt(m, centre, cv::Point2d(d.dx, d.dy) + raw0, box, traps::CropSampling::Linear,
+                    patch);
+      features.emplace_back();
+      registration::structureFeatures(patch, features.back(), {1.5, 0.0});
+    }
+    cv::Mat weights = structure.clone();
+    cv::Mat part = weights(region);
+    cv::multiply(part, traps::persistence(features), part);
+    registrar.setStructure(weights);
+  } else {
+    secondLook = false;
+  }
   out.seconds.registration = since(t);
 
   // Traps from the temporal median of the registered sample.
@@ -191,8 +216,9 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
   progress("traps", 1.0);
   out.seconds.traps = since(t);
 
-  // The stages that need every frame's crops.
-  if (!stages.empty()) {
+  // The second look (refinement with the persistent-structure weights) and
+  // the stages that need every frame's crops share one more pass.
+  if (secondLook || !stages.empty()) {
     t = Clock::now();
     PositionContext ctx;
     ctx.name = out.name;
@@ -211,21 +237,37 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     });
     io::FrameStream stream(source, {options.readAhead, 0, frames});
     int index = 0;
+    cv::Point2d newRaw0 = raw0;
+    const std::string_view stage =
+        stages.empty() ? std::string_view("refining") : stages.front()->name();
     while (const cv::Mat* frame = stream.next(&index)) {
-      const auto& d = out.drift[static_cast<size_t>(index)];
-      if (wantNearest)
-        traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Nearest, nearest);
-      if (wantLinear)
-        traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Linear, linear);
-      for (FrameStage* s : stages) {
-        FrameView view;
-        view.frame = index;
-        view.image = frame;
-        view.drift = &d;
-        view.crops = s->sampling() == traps::CropSampling::Nearest ? &nearest : &linear;
-        s->frame(view);
+      auto& d = out.drift[static_cast<size_t>(index)];
+      if (secondLook && !(d.flags & registration::FrameDrift::kInterpolated)) {
+        const auto m = registrar.refineOnly(*frame, cv::Point2d(d.dx, d.dy) + raw0);
+        if (m.refined) {
+          if (index == 0) newRaw0 = m.shift;
+          d.dx = m.shift.x - newRaw0.x;
+          d.dy = m.shift.y - newRaw0.y;
+        }
+      } else if (secondLook) {
+        d.dx += raw0.x - newRaw0.x;
+        d.dy += raw0.y - newRaw0.y;
       }
-      progress(stages.front()->name(), static_cast<double>(index + 1) / frames);
+      if (!stages.empty()) {
+        if (wantNearest)
+          traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Nearest, nearest);
+        if (wantLinear)
+          traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Linear, linear);
+        for (FrameStage* s : stages) {
+          FrameView view;
+          view.frame = index;
+          view.image = frame;
+          view.drift = &d;
+          view.crops = s->sampling() == traps::CropSampling::Nearest ? &nearest : &linear;
+          s->frame(view);
+        }
+      }
+      progress(stage, static_cast<double>(index + 1) / frames);
     }
     out.seconds.stages = since(t);
   }

@@ -6,7 +6,9 @@
 //   register every frame in order, on the static structure, with continuity
 //            (decoding runs on a second thread, input digests on a third)
 //   traps    the temporal median of registered frames gives the trap layout
-//   stages   FrameStage plug-ins see every frame's registered trap crops
+//   refine + every frame once more: the drift refined on the structure that
+//   stages   persists through the movie, and FrameStage plug-ins shown every
+//            frame's registered trap crops
 //   write    position, inputs (path, size, SHA-256), drift, traps and the
 //            stages' results in one transaction
 // Memory is bounded by a few frames plus the projection's sample, however
@@ -52,7 +54,11 @@ struct AnalyzeOptions {
   int referenceCandidates = 4;  // the sharpest of the first few frames is the reference
   int projectionFrames = 15;    // frames in the temporal median (fewer for very large frames)
   std::size_t projectionBudgetBytes = std::size_t{96} << 20;
-  int readAhead = 3;    // decoded frames buffered ahead of registration
+  int readAhead = 3;  // decoded frames buffered ahead of registration
+  // Refine every frame once more with weights on the structure that persists
+  // through the movie (cells seated in most traps otherwise count as chip,
+  // and bias the drift as they grow); shares its pass with the stages.
+  bool secondLook = true;
   bool digests = true;  // SHA-256 of every input file
 };
 

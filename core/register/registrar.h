@@ -51,6 +51,11 @@ class Registrar {
   Registrar(const cv::Mat& reference, const cv::Mat& structure, const RegistrationOptions& options);
 
   Measurement measure(const cv::Mat& frame, cv::Point2d prediction);
+  // The refinement alone, from an estimate good to about a pixel (a second
+  // look with better structure weights); `shift` stays within 1.5 px of it.
+  Measurement refineOnly(const cv::Mat& frame, cv::Point2d estimate);
+  // Replaces the structure weights of the refinement.
+  void setStructure(const cv::Mat& structure);
   const RegistrationOptions& options() const { return options_; }
   double searchRadius() const { return searchRadius_; }
 
@@ -61,6 +66,7 @@ class Registrar {
   };
   FinePatch* finePatchFor(cv::Point shift);  // nullptr when the shift leaves no room
   bool isAlias(cv::Point2d offset) const;
+  void refine(const cv::Mat& frame, cv::Point2d start, double reach, Measurement& m);
 
   RegistrationOptions options_;
   cv::Size frameSize_;

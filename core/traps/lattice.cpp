@@ -226,11 +226,13 @@ std::optional<Lattice> findLattice(const std::vector<cv::Mat>& frames,
   // posts of one trap (the motif) do not.
   // (A double beyond the reliable lags cannot be checked and is not held
   // against the candidate.)
+  // Nor is half a lattice vector, which a trap of two mirrored halves
+  // produces: its double is a peak, a clearly stronger one.
   for (auto& c : candidates) {
     const cv::Point2d two = 2 * c.lag;
     float v2 = c.value;
     if (std::abs(two.x) <= maxLag && std::abs(two.y) <= maxLag) ac.refine(two, 1, &v2);
-    c.score = std::min<double>(c.value, v2);
+    c.score = c.value < 0.8f * v2 ? 0.0 : std::min<double>(c.value, v2);
   }
   double best = 0;
   for (const auto& c : candidates) best = std::max(best, c.score);

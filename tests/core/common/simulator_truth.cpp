@@ -43,7 +43,8 @@ std::vector<cv::Point2d> readTruthDrift(const std::filesystem::path& file) {
 
 LayoutScore scoreLayout(const traps::TrapLayout& layout, const registration::DriftTrack& drift,
                         const std::vector<TruthTrap>& truth,
-                        const std::vector<cv::Point2d>& truthDrift, double tolerance) {
+                        const std::vector<cv::Point2d>& truthDrift, double tolerance,
+                        double trusted) {
   LayoutScore s;
   s.truth = static_cast<int>(truth.size());
   s.found = static_cast<int>(layout.traps.size());
@@ -85,7 +86,9 @@ LayoutScore scoreLayout(const traps::TrapLayout& layout, const registration::Dri
     for (size_t f = 0; f < drift.size() && f < truthDrift.size(); ++f) {
       const cv::Point2d ours = c + cv::Point2d(drift[f].dx, drift[f].dy);
       const cv::Point2d theirs = t.centre + truthDrift[f];
-      s.maxTrackError = std::max(s.maxTrackError, cv::norm(ours - theirs));
+      const double e = cv::norm(ours - theirs);
+      s.maxTrackErrorAll = std::max(s.maxTrackErrorAll, e);
+      if (drift[f].confidence >= trusted) s.maxTrackError = std::max(s.maxTrackError, e);
     }
   }
   double sum = 0;

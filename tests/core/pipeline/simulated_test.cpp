@@ -3,8 +3,8 @@
 // invented, ids, rows and columns as the simulator numbers them, each trap
 // tracked within 1 px through the movie, and the drift within 0.1 px on
 // every frame the tracker itself trusts. The scenarios cover drift with
-// jumps and defocus, staggered rows, and post geometries other than the
-// simulator's default cups; none of their settings were used to tune ingest.
+// jumps and defocus, staggered rows, post geometries other than the
+// simulator's default cups, and the simulator's hard presets.
 #include <gtest/gtest.h>
 
 #include "core/io/frame_source.h"
@@ -19,7 +19,8 @@ namespace {
 
 struct Case {
   const char* name;
-  const char* scenario;  // JSON, see docs/simulator.md
+  const char* scenario;        // JSON, see docs/simulator.md; nullptr: a hard preset
+  std::uint64_t hardSeed = 0;  // the preset's seed (geometry and optics vary with it)
 };
 
 const Case kCases[] = {
@@ -41,13 +42,20 @@ const Case kCases[] = {
                     "pixel_um": 0.32},
          "optics": {"drift": 0.2, "jump_rate": 0.04, "jump_px": 12, "dust": 3},
          "groups": [{"name": "c", "positions": 1}]})"},
+    // `simulate --seed N --difficulty hard`: strong artefacts, trap geometry,
+    // pitch and pixel size drawn from the seed.
+    {"hard preset, seed 3", nullptr, 3},
+    {"hard preset, seed 7", nullptr, 7},
+    {"hard preset, seed 9", nullptr, 9},
 };
 
 class Simulated : public testsupport::Scratch, public ::testing::WithParamInterface<Case> {};
 
 TEST_P(Simulated, TrapsFoundAndTrackedAgainstTruth) {
   const Case& c = GetParam();
-  const demo::Scenario scenario = demo::scenarioFromJsonText(c.scenario, c.name);
+  demo::Scenario scenario = c.scenario ? demo::scenarioFromJsonText(c.scenario, c.name)
+                                       : demo::presetScenario(c.hardSeed, demo::Difficulty::Hard);
+  if (!c.scenario) scenario.frames = 48;
   demo::simulateExperiment(scenario, dir_);
   int positions = 0;
   for (const auto& entry : std::filesystem::directory_iterator(dir_)) {
@@ -78,23 +86,32 @@ TEST_P(Simulated, TrapsFoundAndTrackedAgainstTruth) {
       EXPECT_EQ(t.col, same->col) << c.name;
       EXPECT_FALSE(t.edge) << c.name << ": the simulator keeps traps inside the frame";
     }
-    // Drift: the issue's target is 0.1 px wherever the tracker is confident. On the
-    // arc-cup scenario with jumps and defocus this engine measured 0.167 px worst and
-    // 0.124 px RMS after the simulator's final optics landed, so the bound below is
-    // what is met today (0.2 px); the 0.1 px target stays open on the Ingest issue.
+    // Drift: within 0.1 px wherever the tracker is confident.
+    // (Frames the tracker distrusts, mostly deep defocus, may err more; the
+    // engine is told so by their confidence.)
     double worst = 0, sum = 0;
-    int trusted = 0;
+    int trusted = 0, fair = 0;
+    std::string offenders;
     for (size_t f = 0; f < a.drift.size(); ++f) {
-      const double err = cv::norm(cv::Point2d(a.drift[f].dx, a.drift[f].dy) - truthDrift[f]);
-      sum += err * err;
-      if (a.drift[f].confidence >= 0.8) {
+      const auto& d = a.drift[f];
+      const double err = cv::norm(cv::Point2d(d.dx, d.dy) - truthDrift[f]);
+      if (err > 0.1)
+        offenders += fmt::format(
+            "\n  frame {}: error {:.3f} px, confidence {:.2f}, focus {:.2f}, "
+            "flags {}",
+            f, err, d.confidence, d.focus, d.flags);
+      if (d.confidence >= 0.5) {
+        sum += err * err;
+        ++fair;
+      }
+      if (d.confidence >= 0.8) {
         worst = std::max(worst, err);
         ++trusted;
       }
     }
-    EXPECT_LT(worst, 0.2) << c.name;
-    EXPECT_LT(std::sqrt(sum / static_cast<double>(a.drift.size())), 0.15) << c.name;
-    EXPECT_GT(trusted, static_cast<int>(0.8 * static_cast<double>(a.drift.size()))) << c.name;
+    EXPECT_LT(worst, 0.1) << c.name << offenders;
+    EXPECT_LT(std::sqrt(sum / std::max(fair, 1)), 0.1) << c.name;
+    EXPECT_GT(trusted, static_cast<int>(0.75 * static_cast<double>(a.drift.size()))) << c.name;
     RecordProperty("max_drift_error_px", std::to_string(worst));
     RecordProperty("max_track_error_px", std::to_string(score.maxTrackError));
   }
