@@ -15,11 +15,13 @@
 #include <QTreeView>
 
 #include "budledger/version.h"
+#include "ui/analysis_dialog.h"
 #include "ui/audit_trail_panel.h"
 #include "ui/counted.h"
 #include "ui/edit_commands.h"
 #include "ui/identity.h"
 #include "ui/levels_bar.h"
+#include "ui/new_project_dialog.h"
 #include "ui/recent_projects.h"
 #include "ui/results_panel.h"
 #include "ui/review_queue_panel.h"
@@ -199,10 +201,9 @@ void MainWindow::applyKeys() {
 
 void MainWindow::buildMenus() {
   QMenu* file = menuBar()->addMenu(tr("&File"));
-  QAction* newFromImages = file->addAction(tr("&New project from images…"));
+  QAction* newFromImages =
+      file->addAction(tr("&New project from images…"), this, &MainWindow::newProjectFromImages);
   newFromImages->setShortcut(QKeySequence::New);
-  newFromImages->setEnabled(false);
-  newFromImages->setToolTip(tr("Use budledger-cli analyze until the import dialog lands"));
   QAction* open = file->addAction(tr("&Open project…"), this, &MainWindow::chooseProjectToOpen);
   open->setShortcut(QKeySequence::Open);
   recentMenu_ = file->addMenu(tr("Open &recent"));
@@ -509,6 +510,35 @@ void MainWindow::chooseProjectToOpen() {
   const QString path = QFileDialog::getOpenFileName(
       this, tr("Open project"), QString(), tr("BudLedger projects (*.budledger);;All files (*)"));
   if (!path.isEmpty()) openProject(path);
+}
+
+void MainWindow::newProjectFromImages() {
+  NewProjectDialog dialog(this);
+  if (dialog.exec() == QDialog::Accepted) analyseAndOpen(dialog.plan());
+}
+
+AnalysisDialog* MainWindow::analyseAndOpen(NewProjectPlan plan) {
+  auto* dialog = new AnalysisDialog(std::move(plan), this);
+  dialog->setWindowModality(Qt::WindowModal);
+  connect(dialog, &AnalysisDialog::finished, this,
+          [this, dialog](const QString& path, const QStringList& summary) {
+            dialog->deleteLater();
+            if (openProject(path)) return;
+            say(tr("Analysed: %1").arg(summary.join(tr("; "))));
+          });
+  connect(dialog, &AnalysisDialog::cancelled, this, [this, dialog] {
+    dialog->deleteLater();
+    say(tr("Analysis cancelled; no project was written"));
+  });
+  connect(dialog, &AnalysisDialog::failed, this, [this, dialog](const QString& why) {
+    dialog->deleteLater();
+    say(tr("Analysis failed; no project was written"));
+    QMessageBox::critical(this, tr("Analysis failed"),
+                          tr("No project was written.\n\n%1").arg(why));
+  });
+  dialog->show();
+  dialog->start();
+  return dialog;
 }
 
 void MainWindow::showShortcuts() {

@@ -13,6 +13,7 @@
 
 #include "ui/crop_source.h"
 #include "ui/key_map.h"
+#include "ui/project_build.h"
 #include "ui/review_priority.h"
 #include "ui/review_session.h"
 #include "ui/thumbnail_loader.h"
@@ -22,6 +23,7 @@ class QMenu;
 
 namespace budledger::ui {
 
+class AnalysisDialog;
 class AuditTrailPanel;
 class EditCommands;
 class ResultsPanel;
@@ -71,6 +73,12 @@ class MainWindow : public QMainWindow {
   // Review → Sign off… and Review → Who is reviewing… (modal dialogs).
   void showSignOff();
   void chooseIdentity();
+  // File → New project from images… (modal), then analyseAndOpen().
+  void newProjectFromImages();
+  // Analyses a plan in the background behind a progress dialog (returned; it
+  // deletes itself when done) and opens the project when it is built. A
+  // failure is a dialog naming the cause; a cancel leaves nothing behind.
+  AnalysisDialog* analyseAndOpen(NewProjectPlan plan);
   QAction* action(Command c) const;
   // Carries out a command as its key would.
   void run(Command c);
