@@ -22,6 +22,10 @@ ReviewQueuePanel::ReviewQueuePanel(QWidget* parent) : QWidget(parent) {
   view_->verticalHeader()->hide();
   view_->verticalHeader()->setDefaultSectionSize(view_->fontMetrics().height() + 6);
   view_->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
+  // Columns fit the rows on screen: measuring every row of a long queue after
+  // each edit cost more than the rest of the edit's repaint.
+  view_->horizontalHeader()->setResizeContentsPrecision(0);
+  view_->verticalHeader()->setResizeContentsPrecision(0);
   view_->horizontalHeader()->setStretchLastSection(true);
   view_->setWordWrap(false);
   auto* prev = new QPushButton(tr("◀ Previous"), this);

@@ -26,6 +26,7 @@ TrapListPanel::TrapListPanel(QWidget* parent) : QWidget(parent) {
   view_->setSelectionMode(QAbstractItemView::SingleSelection);
   view_->setSelectionBehavior(QAbstractItemView::SelectRows);
   view_->header()->setSectionResizeMode(QHeaderView::ResizeToContents);
+  view_->header()->setResizeContentsPrecision(0);  // fit the rows on screen, not all of them
   view_->header()->setStretchLastSection(false);
 
   state_ = new QComboBox(this);

@@ -5,7 +5,10 @@
 // kymograph) it scrolls across the movie and down the lanes, timing a
 // synchronous repaint of the strip view (viewport, axis, lane labels) per
 // step, first with a cold thumbnail cache (placeholders while crops load)
-// and then warm. Prints median / 95th percentile / max in ms.
+// and then warm. Prints median / 95th percentile / max in ms. Then it edits:
+// on every lane an accept, a move, a reject, an undo and a redo through the
+// window's commands (what the keys run), timing each from the command to the
+// Kaplan–Meier curves recomputed and to the window's pending paints done.
 #include <QApplication>
 #include <QElapsedTimer>
 #include <QScrollBar>
@@ -15,13 +18,21 @@
 #include <algorithm>
 #include <cstdio>
 #include <cstdlib>
+#include <cstring>
 #include <ctime>
 #include <vector>
 
 #include "demo_project.h"
 #include "synthetic_crops.h"
+#include "ui/key_map.h"
 #include "ui/main_window.h"
+#include "ui/results_panel.h"
+#include "ui/review_queue_panel.h"
+#include "ui/survival_model.h"
+#include "ui/survival_plot.h"
 #include "ui/time_strip_view.h"
+#include "ui/trap_image_view.h"
+#include "ui/trap_list_panel.h"
 
 using namespace budledger;
 
@@ -86,6 +97,81 @@ Samples scrollAndTime(QWidget* window, ui::TimeStripView* s, int step, Paint mod
   return out;
 }
 
+// Edit-to-updated-curve latency: from the command (what the key runs) to the
+// SurvivalModel's changed() (curves recomputed) and to every paint the edit
+// asked for delivered (strips, results panel, survival plot).
+void timeEdits(ui::MainWindow& w) {
+  ui::TimeStripView* s = w.strips();
+  s->setPixelsPerFrame(48.0);
+  Samples toCurve, toPaint, toReturn;
+  double curveAt = 0;
+  QElapsedTimer t;
+  QObject::connect(w.survival(), &ui::SurvivalModel::changed, &w,
+                   [&] { curveAt = t.nsecsElapsed() / 1e6; });
+  auto timed = [&](ui::Command c) {
+    QApplication::processEvents();
+    curveAt = -1;
+    const double c0 = threadCpuMs();
+    t.start();
+    w.run(c);
+    const double returned = t.nsecsElapsed() / 1e6;
+    QCoreApplication::sendPostedEvents(&w, QEvent::UpdateRequest);
+    const double wall = t.nsecsElapsed() / 1e6;
+    if (curveAt < 0) return;  // the command changed nothing (e.g. refused)
+    toCurve.wall.push_back(curveAt);
+    toReturn.wall.push_back(returned);
+    toPaint.wall.push_back(wall);
+    toPaint.cpu.push_back(threadCpuMs() - c0);
+  };
+  const int lanes = static_cast<int>(s->lanes().size());
+  for (int lane = 0; lane < lanes; ++lane) {
+    const auto& events = w.session()->events(s->lanes()[static_cast<size_t>(lane)]);
+    const auto it = std::find_if(events.begin(), events.end(), [](const ui::ReviewEvent& e) {
+      return e.decision == ui::Decision::Proposed;
+    });
+    if (it == events.end()) continue;
+    s->setCursor(lane, it->event.frame);
+    for (ui::Command c : {ui::Command::Accept, ui::Command::MoveLater, ui::Command::Reject,
+                          ui::Command::Undo, ui::Command::Redo})
+      timed(c);
+  }
+  // Where a whole-window repaint after an edit goes, widget by widget.
+  struct Part {
+    const char* name;
+    QWidget* widget;
+  };
+  const Part parts[] = {{"strips", s},
+                        {"trap list", w.trapPanel()},
+                        {"review queue", w.queuePanel()},
+                        {"current trap", w.trapImage()},
+                        {"results", w.resultsPanel()},
+                        {"survival plot", w.survivalPlot()},
+                        {"whole window", &w}};
+  std::printf("  repaint after an edit, by widget (UI-thread CPU ms, median of 20):");
+  for (const Part& part : parts) {
+    std::vector<double> ms;
+    for (int i = 0; i < 20; ++i) {
+      const double c0 = threadCpuMs();
+      part.widget->repaint();
+      ms.push_back(threadCpuMs() - c0);
+    }
+    std::printf(" %s %.2f;", part.name, summarise(ms).median);
+  }
+  std::printf("\n");
+  const Stats back = summarise(toReturn.wall);
+  const Stats curve = summarise(toCurve.wall), paint = summarise(toPaint.wall),
+              cpu = summarise(toPaint.cpu);
+  std::printf("edits: %d (accept, move, reject, undo, redo on each lane)\n", paint.n);
+  std::printf("  command -> curves recomputed, wall ms: median %.2f p95 %.2f max %.2f\n",
+              curve.median, curve.p95, curve.max);
+  std::printf("  command returned (journal, every model updated), wall ms: median %.2f p95 %.2f\n",
+              back.median, back.p95);
+  std::printf("  command -> window repainted,  wall ms: median %.2f p95 %.2f max %.2f\n",
+              paint.median, paint.p95, paint.max);
+  std::printf("  command -> window repainted,  UI-thread CPU ms: median %.2f p95 %.2f\n",
+              cpu.median, cpu.p95);
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
@@ -102,6 +188,9 @@ int main(int argc, char** argv) {
   auto crops = std::make_shared<testsupport::SyntheticCrops>(events);
 
   QSettings settings(tmp.filePath(QStringLiteral("s.ini")), QSettings::IniFormat);
+  // Edits are signed: a reviewer is set up as the editing tests do.
+  settings.setValue(QStringLiteral("identity/name"), QStringLiteral("Bench Reviewer"));
+  settings.setValue(QStringLiteral("identity/role"), QStringLiteral("technician"));
   ui::MainWindowOptions options;
   options.cropSources = [crops](ui::ReviewSession&) { return crops; };
   options.thumbnails.cacheBytes = 512LL << 20;
@@ -129,7 +218,10 @@ int main(int argc, char** argv) {
   const Zoom zooms[] = {{"full crops (48 px/frame)", 48.0},
                         {"half crops (24 px/frame)", 24.0},
                         {"whole movie (kymograph)", 0.0}};
+  // --edits-only skips the scrolling passes (for profiling the edit path).
+  const bool editsOnly = argc > 1 && std::strcmp(argv[1], "--edits-only") == 0;
   for (const Zoom& z : zooms) {
+    if (editsOnly) break;
     if (z.ppf > 0)
       s->setPixelsPerFrame(z.ppf);
     else
@@ -149,6 +241,7 @@ int main(int argc, char** argv) {
       }
     }
   }
+  timeEdits(w);
   std::printf("thumbnail cache after the runs: %d images, %.1f MiB (cap %.0f MiB)\n",
               w.loader()->cache().count(), w.loader()->cache().bytes() / 1048576.0,
               w.loader()->cache().cap() / 1048576.0);
