@@ -12,6 +12,7 @@
 #include <cmath>
 
 #include "core/base/error.h"
+#include "ui/counted.h"
 
 namespace budledger::ui {
 
@@ -19,12 +20,13 @@ AnalysisDialog::AnalysisDialog(NewProjectPlan plan, QWidget* parent)
     : QDialog(parent), plan_(std::move(plan)) {
   setObjectName(QStringLiteral("analysisDialog"));
   setWindowTitle(tr("Analysing images"));
-  auto* what = new QLabel(
-      tr("Building %1 from %n position(s). Registration, trap finding and the engine run "
-         "here; the project opens when they are done.",
-         nullptr, static_cast<int>(plan_.positions.size()))
-          .arg(QString::fromStdString(plan_.target.filename().string())),
-      this);
+  auto* what =
+      new QLabel(tr("Building %1 from %2. Registration, trap finding and the engine run here; the "
+                    "project opens when they are done.")
+                     .arg(QString::fromStdString(plan_.target.filename().string()),
+                          counted(static_cast<long>(plan_.positions.size()), tr("%1 position"),
+                                  tr("%1 positions"))),
+                 this);
   what->setWordWrap(true);
   stage_ = new QLabel(tr("Opening the images…"), this);
   stage_->setObjectName(QStringLiteral("analysisStage"));

@@ -98,6 +98,11 @@ void AuditTrailPanel::setDatabase(store::Database* db) {
   model_->setDatabase(db);
   refillPeople();
   view_->resizeColumnsToContents();
+  // Before/after hold whole records: cap them so every column stays on screen
+  // (the full text is in the row's tooltip and the CSV).
+  const int cap = fontMetrics().horizontalAdvance(QLatin1Char('x')) * 48;
+  for (int c = 0; c < model_->columnCount(); ++c)
+    if (view_->columnWidth(c) > cap) view_->setColumnWidth(c, cap);
   view_->scrollToBottom();
 }
 

@@ -39,6 +39,13 @@ namespace budledger::ui {
 namespace {
 constexpr int kStatusMs = 8000;
 
+// The store's reason starts "read-only: …"; the banner says so already.
+QString bannerReason(QString why) {
+  const QString prefix = QStringLiteral("read-only: ");
+  if (why.startsWith(prefix)) why.remove(0, prefix.size());
+  return why;
+}
+
 // Commands that act wherever the focus is in the window; the rest act on the strips.
 bool windowWide(Command c) {
   switch (c) {
@@ -329,7 +336,7 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   workspace_->showBanner(
       session_->readOnly()
           ? tr("Read-only — %1. You can look but not edit; close it there to edit here.")
-                .arg(session_->readOnlyReason())
+                .arg(bannerReason(session_->readOnlyReason()))
           : QString());
   setWindowTitle(tr("%1 — BudLedger").arg(QFileInfo(path).fileName()));
   RecentProjects(settings_).add(path);

@@ -53,6 +53,7 @@ SignOffDialog::SignOffDialog(ReviewSession& session, const Identity& who,
   groups_->setHeaderLabels({tr("Group"), tr("Traps"), tr("Mothers"), tr("Died"), tr("Censored"),
                             tr("Divisions"), tr("Median RLS")});
   groups_->header()->setSectionResizeMode(QHeaderView::ResizeToContents);
+  groups_->header()->setStretchLastSection(false);  // keep the medians under their heading
   groups_->setMinimumHeight(110);
   reviewers_ = new QLabel(this);
   reviewers_->setWordWrap(true);

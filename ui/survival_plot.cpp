@@ -204,11 +204,14 @@ void SurvivalPlot::render(QPainter& p, QSize size) const {
     const double y = legendTop + static_cast<double>(i) * (fm.height() + 2) + fm.height() / 2.0;
     const QColor colour = kGroupColours[i % std::size(kGroupColours)];
     p.setPen(QPen(colour, 2.2, kGroupStyles[i % std::size(kGroupStyles)]));
-    p.drawLine(QPointF(plot.left(), y), QPointF(plot.left() + 28, y));
+    // The key starts at the widget's edge, not the plot's, so a narrow dock
+    // still has room; what does not fit is elided rather than cut.
+    const double x0 = 6;
+    p.drawLine(QPointF(x0, y), QPointF(x0 + 28, y));
     p.setPen(ink);
-    p.drawText(QRectF(plot.left() + 34, y - fm.height() / 2.0, size.width() - plot.left() - 40,
-                      fm.height()),
-               Qt::AlignVCenter | Qt::AlignLeft, row);
+    const int room = std::max(0, size.width() - static_cast<int>(x0) - 40);
+    p.drawText(QRectF(x0 + 34, y - fm.height() / 2.0, room, fm.height()),
+               Qt::AlignVCenter | Qt::AlignLeft, fm.elidedText(row, Qt::ElideRight, room));
   }
   p.restore();
 }
