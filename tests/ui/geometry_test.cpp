@@ -1,10 +1,12 @@
 // TimeAxis and StripGeometry: frame <-> x, lanes <-> y, zoom modes and the
 // clock labels of the time axis. Values are worked by hand from the
-// definitions in time_axis.h and strip_geometry.h.
+// definitions in time_axis.h and strip_geometry.h; the measured cells drawn
+// on the large trap view are worked from the features JSON the engine stores.
 #include <QtTest>
 
 #include "ui/strip_geometry.h"
 #include "ui/time_axis.h"
+#include "ui/trap_image_view.h"
 
 using budledger::ui::StripGeometry;
 using budledger::ui::StripMode;
@@ -135,6 +137,27 @@ class GeometryTest : public QObject {
     QCOMPARE(r.width(), 20.0);
     QCOMPARE(r.top(), 2 * g.laneHeight());
     QCOMPARE(r.height(), 40.0);
+  }
+
+  void measuredCellsBecomeCirclesInCropPixels() {
+    using budledger::ui::CellOutline;
+    // Two cells as core/engine writes them; 0.25 µm/px, engine crop 3 px right
+    // and 2 px down of the view's crop.
+    const std::string json =
+        R"({"cells":[{"x":10,"y":20,"diameter_um":5,"role":"mother"},)"
+        R"({"x":14.5,"y":9,"diameter_um":2,"role":"bud"},{"x":1,"y":1,"diameter_um":0,"role":"other"}]})";
+    const auto cells = budledger::ui::cellsFromFeatures(json, 0.25, QPointF(3, 2));
+    QCOMPARE(cells.size(), size_t{2});  // a zero-size cell is not drawn
+    QCOMPARE(cells[0].centre, QPointF(13, 22));
+    QCOMPARE(cells[0].radiusPx, 10.0);  // 5 µm / 0.25 µm/px / 2
+    QVERIFY(cells[0].role == CellOutline::Role::Mother);
+    QCOMPARE(cells[1].centre, QPointF(17.5, 11));
+    QCOMPARE(cells[1].radiusPx, 4.0);
+    QVERIFY(cells[1].role == CellOutline::Role::Bud);
+    // Unreadable JSON or an unknown pixel size draw nothing rather than guess.
+    QVERIFY(budledger::ui::cellsFromFeatures("{not json", 0.25, {}).empty());
+    QVERIFY(budledger::ui::cellsFromFeatures(json, 0, {}).empty());
+    QVERIFY(budledger::ui::cellsFromFeatures(R"({"informative":false})", 0.25, {}).empty());
   }
 };
 
