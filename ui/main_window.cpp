@@ -122,7 +122,7 @@ QAction* MainWindow::action(Command c) const {
 
 void MainWindow::buildDocks() {
   trapPanel_ = new TrapListPanel(this);
-  trapPanel_->setMinimumWidth(340);
+  trapPanel_->setMinimumWidth(372);  // every column of the trap list, scroll bar included
   auto* trapDock = new QDockWidget(tr("Traps"), this);
   trapDock->setObjectName(QStringLiteral("trapDock"));
   trapDock->setWidget(trapPanel_);
