@@ -165,6 +165,17 @@ void MainWindow::buildDocks() {
   auditDock->setWidget(audit_);
   addDockWidget(Qt::BottomDockWidgetArea, auditDock);
   auditDock->hide();  // View → Audit trail; it takes room the strips need while proofreading
+  // The trail re-reads the journal; while hidden it waits until it is shown
+  // rather than grow the cost of every edit with the journal's length.
+  connect(auditDock, &QDockWidget::visibilityChanged, this, [this](bool visible) {
+    if (visible && auditStale_) {
+      auditStale_ = false;
+      if (audit_->isVisible())
+        audit_->refresh();
+      else
+        auditStale_ = true;
+    }
+  });
   connect(audit_, &AuditTrailPanel::eventChosen, this, [this](std::int64_t id) {
     if (!session_) return;
     if (const ReviewEvent* e = session_->event(id)) {
@@ -308,7 +319,10 @@ std::optional<QString> MainWindow::openProject(const QString& path, bool quiet) 
   edits_->setSession(session_.get());
   audit_->setDatabase(&session_->project().db());
   connect(session_.get(), &ReviewSession::edited, this, [this] {
-    audit_->refresh();
+    if (audit_->isVisible())
+      audit_->refresh();
+    else
+      auditStale_ = true;
     updateEditability();
     if (auto t = strips()->currentTrap()) onCursorChanged(*t, strips()->cursorFrame());
   });

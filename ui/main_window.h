@@ -121,6 +121,7 @@ class MainWindow : public QMainWindow {
   QLabel* cursorLabel_ = nullptr;
   QMenu* recentMenu_ = nullptr;
   QMenu* viewMenu_ = nullptr;
+  bool auditStale_ = false;  // edits made while the audit trail was hidden
 };
 
 }  // namespace budledger::ui

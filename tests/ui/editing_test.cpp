@@ -4,6 +4,7 @@
 // to the exact state; the journal replayed from scratch equals the live
 // state; a sign-off locks its traps until revoked; a project held by another
 // program opens read-only and refuses edits.
+#include <QDockWidget>
 #include <QLabel>
 #include <QScrollBar>
 #include <QSettings>
@@ -16,6 +17,8 @@
 #include "core/store/verify.h"
 #include "demo_project.h"
 #include "synthetic_crops.h"
+#include "ui/audit_trail_model.h"
+#include "ui/audit_trail_panel.h"
 #include "ui/edit_commands.h"
 #include "ui/main_window.h"
 #include "ui/results_panel.h"
@@ -90,6 +93,21 @@ class EditingTest : public QObject {
     // Accepting it again changes nothing and records nothing.
     QTest::keyClick(strips(), Qt::Key_Return);
     QCOMPARE(journal().size(), before + 1);
+  }
+
+  void hiddenAuditTrailCatchesUpWhenShown() {
+    auto* dock = window_->findChild<QDockWidget*>(QStringLiteral("auditDock"));
+    QVERIFY(dock && !dock->isVisible());
+    QTest::keyClick(strips(), Qt::Key_BracketRight);
+    QTest::keyClick(strips(), Qt::Key_Return);
+    QTest::keyClick(strips(), Qt::Key_BracketRight);
+    QTest::keyClick(strips(), Qt::Key_Delete);
+    dock->show();
+    QTRY_COMPARE(window_->auditTrail()->model()->rowCount(), static_cast<int>(journal().size()));
+    // While shown it follows every edit.
+    QTest::keyClick(strips(), Qt::Key_BracketRight);
+    QTest::keyClick(strips(), Qt::Key_Return);
+    QCOMPARE(window_->auditTrail()->model()->rowCount(), static_cast<int>(journal().size()));
   }
 
   void moveByKeysRecomputesTheLifespan() {
