@@ -6,6 +6,7 @@
 // jumps and defocus, staggered rows, post geometries other than the
 // simulator's default cups, and the simulator's hard presets.
 #include <gtest/gtest.h>
+#include <ostream>
 
 #include "core/io/frame_source.h"
 #include "core/pipeline/analyze.h"
@@ -22,6 +23,9 @@ struct Case {
   const char* scenario;        // JSON, see docs/simulator.md; nullptr: a hard preset
   std::uint64_t hardSeed = 0;  // the preset's seed (geometry and optics vary with it)
 };
+
+// Names the case in test listings instead of gtest's dump of the struct's bytes.
+void PrintTo(const Case& c, std::ostream* os) { *os << c.name; }
 
 const Case kCases[] = {
     {"arc cups, drift with jumps and defocus",
