@@ -162,18 +162,49 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
     for (const auto& s : samples[i]) areas += measure::outlineAreas(s, background.background(i), noise, seg);
   seg.polarity = measure::choosePolarity(areas);
   const measure::CropGeometry geometry{in.cup.x, in.cup.y, in.pixelUm};
-  std::vector<double> motherAreas;
+  // Registration is good to a fraction of a pixel; the posts' edges then leave residuals
+  // that the per-pixel noise map allows for.
+  std::vector<const cv::Mat*> emptyCrops, emptyBackgrounds;
+  for (std::size_t i = 0; i < N; ++i)
+    for (int k : background.empties()[i]) {
+      emptyCrops.push_back(&samples[i][static_cast<std::size_t>(k)]);
+      emptyBackgrounds.push_back(&background.background(i));
+    }
+  const double shift =
+      measure::estimateShift(emptyCrops, emptyBackgrounds, noise, seg.smoothSigmaPx);
+  std::vector<cv::Mat> noiseMaps(N);
+  for (std::size_t i = 0; i < N; ++i)
+    noiseMaps[i] = measure::noiseMap(background.background(i), noise, shift, seg.smoothSigmaPx);
+  // Where mothers sit and how big they are, from the samples: the seat can be a few
+  // pixels off the lattice's cup centre, and cell size varies with strain and optics.
+  measure::CropGeometry seatGeometry = geometry;
+  std::vector<double> motherAreas, seatX, seatY;
+  measure::SegmentParams searching = seg;
+  searching.seatRadiusFactor = 1.5 * seg.seatRadiusFactor;
   for (std::size_t i = 0; i < N; ++i)
     for (const auto& s : samples[i]) {
-      const auto r = measure::segmentCrop(s, background.background(i), noise, geometry, seg);
-      if (r.mother >= 0) motherAreas.push_back(r.cells[static_cast<std::size_t>(r.mother)].areaPx);
+      const auto r = measure::segmentCrop(s, background.background(i), noise, geometry, searching,
+                                          &noiseMaps[i]);
+      if (r.mother < 0) continue;
+      const auto& m = r.cells[static_cast<std::size_t>(r.mother)];
+      motherAreas.push_back(m.areaPx);
+      seatX.push_back(m.x);
+      seatY.push_back(m.y);
     }
-  if (motherAreas.size() >= 5)
+  if (motherAreas.size() >= 5) {
     seg.motherRadiusPx = std::clamp(std::sqrt(median(motherAreas) / std::numbers::pi),
                                     0.6 * startRadius, 1.6 * startRadius);
+    const double dx = median(seatX) - geometry.cupX, dy = median(seatY) - geometry.cupY;
+    if (std::hypot(dx, dy) < seg.motherRadiusPx) {
+      seatGeometry.cupX += dx;
+      seatGeometry.cupY += dy;
+    }
+  }
   out.calibration = {{"noise_sd", noise},
                      {"polarity", seg.polarity},
                      {"mother_radius_px", seg.motherRadiusPx},
+                     {"registration_shift_px", shift},
+                     {"seat_px", {seatGeometry.cupX, seatGeometry.cupY}},
                      {"empty_samples", background.emptySamples()},
                      {"background_floor", background.noiseFloor()},
                      {"sample_frames", sampleFrames.size()}};
@@ -204,8 +235,8 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       const auto ut = static_cast<std::size_t>(t);
       if (!informative[ut]) continue;
       const cv::Mat crop = measure::normaliseCrop(crops[i][ut]);
-      readings[i][ut] =
-          measure::segmentCrop(crop, background.background(i), noise, geometry, segKeep);
+      readings[i][ut] = measure::segmentCrop(crop, background.background(i), noise,
+                                             seatGeometry, segKeep, &noiseMaps[i]);
     }
     const auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
     int previous = -1;  // last informative frame

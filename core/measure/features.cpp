@@ -115,7 +115,7 @@ double departedArea(const CropReading& before, const std::vector<int>& attachedB
     const auto* n = now.mask.ptr<std::uint16_t>(y);
     const float* d = now.difference.ptr<float>(y);
     for (int x = 0; x < now.mask.cols; ++x)
-      if (b[x] && wasAttached[b[x]] && n[x] == 0 && std::abs(d[x]) < backgroundSd) ++gone;
+      if (b[x] && wasAttached[b[x]] && n[x] == 0 && d[x] < backgroundSd) ++gone;
   }
   return gone / std::max(1.0, now.cells[static_cast<std::size_t>(now.mother)].areaPx);
 }

@@ -53,8 +53,8 @@ struct CycleParams {
   double meanUnbuddedMin = 15;         // mean time from separation to next bud (G1)
   double meanBuddedExtraMin = 30;      // mean budded time beyond the minimum
   double immediateRebud = 0.3;         // share of separations with the next bud in the same frame
-  double arrivalPerMin = 1.0 / 600;    // an empty trap catches a new mother
-  double washoutPerMin = 1.0 / 6000;   // a live mother is flushed out
+  double arrivalPerMin = 1.0 / 2000;   // an empty trap catches a new mother
+  double washoutPerMin = 1.0 / 20000;  // a live mother is flushed out
   double deathPerMin = 1.0 / 3000;     // a live mother dies
   double deadGonePerMin = 1.0 / 3000;  // a dead mother is flushed out
   double deathOnsetMin = 180;     // morphological signs of death develop over this time

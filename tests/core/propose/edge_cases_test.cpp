@@ -163,6 +163,33 @@ TEST(EdgeCases, LingeringDaughterIsNotASecondDivision) {
   EXPECT_EQ(o.count(EventKind::Bud), 6);
 }
 
+TEST(EdgeCases, DepartureTimesASeparationTheBudSizeCannot) {
+  // A neighbour hides the bud's growth (bud size unknown), but the daughter's departure
+  // is seen in the frame after each separation.
+  Script s;
+  for (int c = 0; c < 6; ++c) {
+    s.add(single(), 2);
+    for (int i = 0; i < 6; ++i) {
+      FrameEvidence f = budded(0.3);
+      f.budRatio = kMissing;
+      f.departure = 0.0;
+      s.add(f);
+    }
+    s.separations.push_back(static_cast<int>(s.ev.size()));
+    FrameEvidence gone = single();
+    gone.departure = 0.45;
+    s.add(gone);
+  }
+  s.add(single(), 3);
+  const auto o = decode(s.ev);
+  EXPECT_EQ(o.count(EventKind::Separation), 6);
+  std::vector<int> got;
+  for (const auto& e : o.calls.events)
+    if (e.kind == EventKind::Separation) got.push_back(e.frame);
+  ASSERT_EQ(got.size(), s.separations.size());
+  for (std::size_t i = 0; i < got.size(); ++i) EXPECT_EQ(got[i], s.separations[i]) << i;
+}
+
 TEST(EdgeCases, CrowdingHidesButDoesNotEndTheMother) {
   Script s;
   s.cycles(4);
