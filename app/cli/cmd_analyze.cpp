@@ -7,6 +7,7 @@
 // failure nothing is left behind either way.
 #include <fmt/format.h>
 #include <unistd.h>
+#include <opencv2/core/utility.hpp>
 
 #include <cmath>
 #include <filesystem>
@@ -63,9 +64,10 @@ std::vector<Position> openInputs(const AnalyzeArgs& args) {
   }
   for (const auto& p : out)
     if (!names.insert(p.name).second)
-      throw InputError(fmt::format("two inputs are both position '{}' (positions are named after "
-                                   "their files)",
-                                   p.name));
+      throw InputError(
+          fmt::format("two inputs are both position '{}' (positions are named after "
+                      "their files)",
+                      p.name));
   return out;
 }
 
@@ -95,6 +97,9 @@ std::string describe(const pipeline::PositionAnalysis& a) {
 }
 
 int runAnalyze(const AnalyzeArgs& args) {
+  // The pipeline runs its own threads (decoding, digests beside
+  // registration); OpenCV's worker pool on top only makes them queue.
+  cv::setNumThreads(1);
   std::vector<Position> positions = openInputs(args);
   std::optional<std::vector<traps::SuppliedTrap>> supplied;
   if (!args.traps.empty()) supplied = traps::readTrapsCsv(args.traps);
@@ -128,8 +133,9 @@ int runAnalyze(const AnalyzeArgs& args) {
     TerminalProgress bar;
     for (size_t i = 0; i < positions.size(); ++i) {
       auto& p = positions[i];
-      const std::string label =
-          positions.size() > 1 ? fmt::format("[{}/{}] {}", i + 1, positions.size(), p.name) : p.name;
+      const std::string label = positions.size() > 1
+                                    ? fmt::format("[{}/{}] {}", i + 1, positions.size(), p.name)
+                                    : p.name;
       Progress sink = bar.sink();
       auto report = sink.report;
       sink.report = [report, label](std::string_view stage, double f) {
@@ -157,8 +163,8 @@ int runAnalyze(const AnalyzeArgs& args) {
     // The project's connection is closed (WAL folded back); now publish it.
     if (std::filesystem::exists(target)) {
       removeProjectFiles(building);
-      throw InputError(fmt::format("project '{}' appeared while analysing; not overwritten",
-                                   target.string()));
+      throw InputError(
+          fmt::format("project '{}' appeared while analysing; not overwritten", target.string()));
     }
     std::filesystem::rename(building, target);
     removeProjectFiles(building);

@@ -23,9 +23,12 @@ void addAnalyzeCommand(CLI::App& root, Action& action);
 void addExportCommand(CLI::App& root, Action& action);
 void addEvaluateCommand(CLI::App& root, Action& action);
 void addTrainCommand(CLI::App& root, Action& action);
-
-// One export format: runs after parsing, returns whether its option was given.
-using ExportStep = std::function<bool(store::Project&)>;
-void addTrapsExportOption(CLI::App* exportCmd, std::vector<ExportStep>& steps);
+void addEditCommand(CLI::App& root, Action& action);
+void addLogCommand(CLI::App& root, Action& action);
+void addVerifyCommand(CLI::App& root, Action& action);
+void addSignoffCommand(CLI::App& root, Action& action);
+void addUndoCommand(CLI::App& root, Action& action);
+void addRedoCommand(CLI::App& root, Action& action);
+void addMergeCommand(CLI::App& root, Action& action);
 
 }  // namespace budledger::cli

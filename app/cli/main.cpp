@@ -24,6 +24,13 @@ int main(int argc, char** argv) {
   addSimulateCommand(app, action);
   addStatsCommand(app, action);
   addAnalyzeCommand(app, action);
+  addEditCommand(app, action);
+  addLogCommand(app, action);
+  addVerifyCommand(app, action);
+  addSignoffCommand(app, action);
+  addUndoCommand(app, action);
+  addRedoCommand(app, action);
+  addMergeCommand(app, action);
   addExportCommand(app, action);
   addEvaluateCommand(app, action);
   addTrainCommand(app, action);

@@ -5,18 +5,18 @@
 #include <map>
 
 #include "core/lineage/lineage.h"
+#include "core/store/lifespans.h"
+#include "core/store/materialised.h"
 
 namespace budledger::exporting {
 
 std::string projectSummary(store::Project& project) {
   std::string out = fmt::format("Project {}\n", project.path());
   const auto positions = project.positions();
-  int frameCount = 0;
   for (const auto& p : positions) {
     const auto traps = project.traps(p.id);
     out += fmt::format("  position {} '{}' group '{}': {} frames of {}x{} px, {} traps\n", p.id,
                        p.name, p.group, p.frameCount, p.width, p.height, traps.size());
-    frameCount = std::max(frameCount, p.frameCount);
   }
   if (positions.empty()) out += "  no positions yet\n";
   const auto run = project.latestRun();
@@ -31,16 +31,23 @@ std::string projectSummary(store::Project& project) {
                      events.size());
   for (EventKind k : kAllEventKinds) out += fmt::format(", {} {}", byKind[k], toString(k));
   out += "\n";
-  const auto lineage = lineage::tenuresFromEvents(events, frameCount);
+  // Lifespans as they stand after the journal (every position's latest run
+  // and the decisions people took), not the latest run's proposals alone.
+  std::map<store::EventStatus, int> byStatus;
+  for (const auto& e : store::currentEvents(project.db())) ++byStatus[e.status];
+  out += fmt::format("  events now: {} proposed, {} accepted, {} moved, {} added, {} rejected\n",
+                     byStatus[store::EventStatus::Proposed], byStatus[store::EventStatus::Accepted],
+                     byStatus[store::EventStatus::Moved], byStatus[store::EventStatus::Added],
+                     byStatus[store::EventStatus::Rejected]);
+  const auto tenures = store::currentTenures(project);
   int dead = 0;
   long divisions = 0;
-  for (const auto& t : lineage.tenures) {
+  for (const auto& t : tenures) {
     dead += t.outcome == Outcome::Death;
     divisions += t.divisions;
   }
-  out += fmt::format("  {} mothers ({} died, {} censored), {} divisions in all\n",
-                     lineage.tenures.size(), dead,
-                     lineage.tenures.size() - static_cast<size_t>(dead), divisions);
+  out += fmt::format("  {} mothers ({} died, {} censored), {} divisions in all\n", tenures.size(),
+                     dead, tenures.size() - static_cast<size_t>(dead), divisions);
   return out;
 }
 

@@ -23,13 +23,13 @@ void writeTrapsCsv(store::Project& project, std::ostream& out) {
   for (const auto& p : project.positions()) names[p.id] = p.name;
   out << "position,trap_id,row,col,x,y,edge\n";
   for (const auto& t : project.traps())
-    out << fmt::format("{},{},{},{},{:.3f},{:.3f},{}\n", csvField(names[t.position]), t.trap,
-                       t.row, t.col, t.x, t.y, t.edge ? 1 : 0);
+    out << fmt::format("{},{},{},{},{:.3f},{:.3f},{}\n", csvField(names[t.position]), t.trap, t.row,
+                       t.col, t.x, t.y, t.edge ? 1 : 0);
 }
 
 void exportTrapsCsv(store::Project& project, const std::filesystem::path& file) {
-  const auto tmp = file.parent_path() / fmt::format(".{}.partial-{}", file.filename().string(),
-                                                    ::getpid());
+  const auto tmp =
+      file.parent_path() / fmt::format(".{}.partial-{}", file.filename().string(), ::getpid());
   {
     std::ofstream out(tmp);
     if (!out) throw std::runtime_error(fmt::format("cannot write '{}'", file.string()));

@@ -32,9 +32,9 @@ struct StackInfo {
   int cvType = 0;
   std::vector<InputFile> files;  // the files the frames come from, in frame order
   StackMetadata metadata;
-  int channel = 0;               // the channel these frames show
-  std::string channelName;       // "" when the input names no channels
-  std::string description;       // human summary, e.g. "BigTIFF, tiled, 240 frames"
+  int channel = 0;          // the channel these frames show
+  std::string channelName;  // "" when the input names no channels
+  std::string description;  // human summary, e.g. "BigTIFF, tiled, 240 frames"
 };
 
 struct OpenOptions {

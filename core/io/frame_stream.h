@@ -19,9 +19,9 @@
 namespace budledger::io {
 
 struct StreamOptions {
-  int depth = 3;   // decoded frames buffered ahead of the consumer
-  int first = 0;   // first frame
-  int last = -1;   // one past the last frame; -1 = all
+  int depth = 3;  // decoded frames buffered ahead of the consumer
+  int first = 0;  // first frame
+  int last = -1;  // one past the last frame; -1 = all
 };
 
 class FrameStream {

@@ -115,8 +115,10 @@ std::vector<FolderPosition> scanFolder(const std::filesystem::path& folder,
   std::vector<std::filesystem::path> names;
   for (const auto& e : std::filesystem::directory_iterator(folder, ec))
     if (e.is_regular_file() && isTiffName(e.path())) names.push_back(e.path());
-  if (ec) throw InputError(where, std::nullopt, fmt::format("cannot list folder ({})", ec.message()));
-  if (names.empty()) throw InputError(where, std::nullopt, "folder holds no TIFF files (.tif, .tiff)");
+  if (ec)
+    throw InputError(where, std::nullopt, fmt::format("cannot list folder ({})", ec.message()));
+  if (names.empty())
+    throw InputError(where, std::nullopt, "folder holds no TIFF files (.tif, .tiff)");
   std::sort(names.begin(), names.end());
 
   std::map<std::string, std::vector<Entry>> byPosition;
@@ -134,7 +136,8 @@ std::vector<FolderPosition> scanFolder(const std::filesystem::path& folder,
     std::vector<size_t> order(names.size());
     for (size_t i = 0; i < order.size(); ++i) order[i] = i;
     if (distinct.size() == names.size())
-      std::sort(order.begin(), order.end(), [&](size_t a, size_t b) { return *keys[a] < *keys[b]; });
+      std::sort(order.begin(), order.end(),
+                [&](size_t a, size_t b) { return *keys[a] < *keys[b]; });
     auto& list = byPosition[folderName];
     for (size_t k = 0; k < order.size(); ++k)
       list.push_back({names[order[k]], "", 0, static_cast<long>(k)});
@@ -187,10 +190,10 @@ std::vector<FolderPosition> scanFolder(const std::filesystem::path& folder,
       if (e.channel != channel || e.z != z) continue;
       const auto [it, inserted] = byTime.emplace(e.time, e.path);
       if (!inserted)
-        throw InputError(where, std::nullopt,
-                         fmt::format("two files for time {} of position '{}': {} and {}", e.time,
-                                     name, it->second.filename().string(),
-                                     e.path.filename().string()));
+        throw InputError(
+            where, std::nullopt,
+            fmt::format("two files for time {} of position '{}': {} and {}", e.time, name,
+                        it->second.filename().string(), e.path.filename().string()));
     }
     long expected = byTime.begin()->first;
     for (const auto& [t, path] : byTime) {
@@ -259,10 +262,10 @@ class FolderSource final : public FrameSource {
                             : options.channel;
     for (size_t i = 0; i < position_.channels.size(); ++i)
       if (position_.channels[i] == info_.channelName) info_.channel = static_cast<int>(i);
-    info_.description =
-        fmt::format("folder of {} single-frame TIFFs of {}x{} {}-bit{}", info_.frames, info_.width,
-                    info_.height, info_.bitsPerSample,
-                    info_.channelName.empty() ? "" : fmt::format(", channel '{}'", info_.channelName));
+    info_.description = fmt::format(
+        "folder of {} single-frame TIFFs of {}x{} {}-bit{}", info_.frames, info_.width,
+        info_.height, info_.bitsPerSample,
+        info_.channelName.empty() ? "" : fmt::format(", channel '{}'", info_.channelName));
   }
 
   const StackInfo& info() const override { return info_; }

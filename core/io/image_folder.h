@@ -19,9 +19,9 @@ namespace budledger::io {
 struct FolderPosition {
   std::string name;
   std::filesystem::path folder;
-  std::vector<std::string> channels;           // sorted; empty if the pattern has none
-  std::vector<std::filesystem::path> frames;   // of the chosen channel, in time order
-  std::vector<int> times;                      // the {time} value of each frame
+  std::vector<std::string> channels;          // sorted; empty if the pattern has none
+  std::vector<std::filesystem::path> frames;  // of the chosen channel, in time order
+  std::vector<int> times;                     // the {time} value of each frame
 };
 
 // Lists the positions of a folder. Throws InputError for a missing or empty

@@ -71,7 +71,8 @@ std::vector<Element> startTags(std::string_view xml) {
         continue;
       }
       std::string key(xml.substr(j, k - j));
-      if (const auto colon = key.rfind(':'); colon != std::string::npos) key = key.substr(colon + 1);
+      if (const auto colon = key.rfind(':'); colon != std::string::npos)
+        key = key.substr(colon + 1);
       while (k < xml.size() && std::isspace(static_cast<unsigned char>(xml[k]))) ++k;
       if (k >= xml.size() || xml[k] != '=') {
         j = k;
@@ -238,10 +239,10 @@ StackMetadata parseImageJ(std::string_view text) {
 
 std::optional<double> toMinutes(double value, std::string_view unit) {
   static const std::map<std::string, double, std::less<>> kPerMinute{
-      {"h", 60.0},         {"hr", 60.0},          {"hour", 60.0},        {"min", 1.0},
-      {"s", 1.0 / 60},     {"sec", 1.0 / 60},     {"second", 1.0 / 60},  {"ms", 1.0 / 60e3},
-      {"µs", 1.0 / 60e6},  {"μs", 1.0 / 60e6},    {"us", 1.0 / 60e6},    {"ns", 1.0 / 60e9},
-      {"d", 1440.0},       {"minute", 1.0},       {"minutes", 1.0},      {"seconds", 1.0 / 60}};
+      {"h", 60.0},        {"hr", 60.0},       {"hour", 60.0},       {"min", 1.0},
+      {"s", 1.0 / 60},    {"sec", 1.0 / 60},  {"second", 1.0 / 60}, {"ms", 1.0 / 60e3},
+      {"µs", 1.0 / 60e6}, {"μs", 1.0 / 60e6}, {"us", 1.0 / 60e6},   {"ns", 1.0 / 60e9},
+      {"d", 1440.0},      {"minute", 1.0},    {"minutes", 1.0},     {"seconds", 1.0 / 60}};
   const auto it = kPerMinute.find(unit);
   if (it == kPerMinute.end()) return std::nullopt;
   return value * it->second;
@@ -249,9 +250,8 @@ std::optional<double> toMinutes(double value, std::string_view unit) {
 
 std::optional<double> toMicrometres(double value, std::string_view unit) {
   static const std::map<std::string, double, std::less<>> kPerUm{
-      {"µm", 1.0},    {"μm", 1.0},    {"um", 1.0}, {"micron", 1.0}, {"microns", 1.0},
-      {"nm", 1e-3},   {"pm", 1e-6},   {"Å", 1e-4}, {"mm", 1e3},     {"cm", 1e4},
-      {"m", 1e6}};
+      {"µm", 1.0},  {"μm", 1.0}, {"um", 1.0}, {"micron", 1.0}, {"microns", 1.0}, {"nm", 1e-3},
+      {"pm", 1e-6}, {"Å", 1e-4}, {"mm", 1e3}, {"cm", 1e4},     {"m", 1e6}};
   const auto it = kPerUm.find(unit);
   if (it == kPerUm.end()) return std::nullopt;
   return value * it->second;
@@ -262,10 +262,20 @@ int pageFor(std::string_view order, int t, int c, int z, int sizeT, int sizeC, i
   int page = 0, stride = 1;
   for (size_t i = 2; i < order.size() && i < 5; ++i) {
     switch (order[i]) {
-      case 'T': page += t * stride; stride *= sizeT; break;
-      case 'C': page += c * stride; stride *= sizeC; break;
-      case 'Z': page += z * stride; stride *= sizeZ; break;
-      default: break;
+      case 'T':
+        page += t * stride;
+        stride *= sizeT;
+        break;
+      case 'C':
+        page += c * stride;
+        stride *= sizeC;
+        break;
+      case 'Z':
+        page += z * stride;
+        stride *= sizeZ;
+        break;
+      default:
+        break;
     }
   }
   return page;

@@ -21,13 +21,13 @@ struct StackMetadata {
   enum class Kind { None, OmeXml, ImageJ };
   Kind kind = Kind::None;
   std::optional<int> sizeT, sizeC, sizeZ;
-  std::string dimensionOrder;           // OME DimensionOrder, e.g. "XYCZT"; empty if unknown
-  std::optional<double> intervalMin;    // time between frames, minutes
-  std::optional<double> pixelUmX;       // physical pixel size, micrometres
+  std::string dimensionOrder;         // OME DimensionOrder, e.g. "XYCZT"; empty if unknown
+  std::optional<double> intervalMin;  // time between frames, minutes
+  std::optional<double> pixelUmX;     // physical pixel size, micrometres
   std::optional<double> pixelUmY;
-  std::vector<std::string> channels;    // channel names (or ids) in channel order
+  std::vector<std::string> channels;       // channel names (or ids) in channel order
   std::vector<PlaneIndex> explicitPlanes;  // OME TiffData with explicit IFD numbers
-  std::string otherFile;  // a TiffData naming another file (multi-file OME); unsupported
+  std::string otherFile;   // a TiffData naming another file (multi-file OME); unsupported
   std::string lengthUnit;  // ImageJ "unit=": the unit of the XResolution tag's pixels per unit
 };
 

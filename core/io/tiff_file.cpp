@@ -52,7 +52,8 @@ void TiffFile::fail(std::optional<long> frame, const std::string& what) {
   throw InputError(path_.string(), frame, what);
 }
 
-TiffFile::TiffFile(const std::filesystem::path& path) : path_(path), h_(std::make_unique<Handle>()) {
+TiffFile::TiffFile(const std::filesystem::path& path)
+    : path_(path), h_(std::make_unique<Handle>()) {
   std::error_code ec;
   if (!std::filesystem::exists(path, ec)) fail(std::nullopt, "file not found");
   if (std::filesystem::is_directory(path, ec)) fail(std::nullopt, "is a folder, not a TIFF file");
@@ -66,8 +67,8 @@ TiffFile::TiffFile(const std::filesystem::path& path) : path_(path), h_(std::mak
     unsigned char magic[4] = {};
     const size_t n = std::fread(magic, 1, 4, f);
     std::fclose(f);
-    const bool order = n == 4 && ((magic[0] == 'I' && magic[1] == 'I') ||
-                                  (magic[0] == 'M' && magic[1] == 'M'));
+    const bool order =
+        n == 4 && ((magic[0] == 'I' && magic[1] == 'I') || (magic[0] == 'M' && magic[1] == 'M'));
     const int version = magic[0] == 'I' ? magic[2] | (magic[3] << 8) : (magic[2] << 8) | magic[3];
     if (!order || (version != 42 && version != 43))
       fail(std::nullopt, "not a TIFF file (no TIFF signature)");
@@ -76,7 +77,10 @@ TiffFile::TiffFile(const std::filesystem::path& path) : path_(path), h_(std::mak
   TIFFOpenOptions* opts = TIFFOpenOptionsAlloc();
   TIFFOpenOptionsSetErrorHandlerExtR(opts, captureError, &h_->lastError);
   TIFFOpenOptionsSetWarningHandlerExtR(opts, ignoreWarning, nullptr);
-  h_->tif = TIFFOpenExt(path.c_str(), "r", opts);
+  // "m": no memory mapping. Mapped pages of a large stack would count as this
+  // process's memory and grow with every frame read; plain reads keep the
+  // footprint at a frame or two whatever the length of the movie.
+  h_->tif = TIFFOpenExt(path.c_str(), "rm", opts);
   TIFFOpenOptionsFree(opts);
   if (!h_->tif) fail(std::nullopt, fmt::format("not a readable TIFF file ({})", takeMessage()));
   TIFF* tif = h_->tif;
@@ -93,8 +97,7 @@ TiffFile::TiffFile(const std::filesystem::path& path) : path_(path), h_(std::mak
     TIFFGetFieldDefaulted(tif, TIFFTAG_SAMPLESPERPIXEL, &spp);
     TIFFGetFieldDefaulted(tif, TIFFTAG_SAMPLEFORMAT, &format);
     TIFFGetFieldDefaulted(tif, TIFFTAG_COMPRESSION, &compression);
-    if (!TIFFGetField(tif, TIFFTAG_PHOTOMETRIC, &photometric))
-      photometric = PHOTOMETRIC_MINISBLACK;
+    if (!TIFFGetField(tif, TIFFTAG_PHOTOMETRIC, &photometric)) photometric = PHOTOMETRIC_MINISBLACK;
     if (w == 0 || hgt == 0) fail(page, "page has no image size");
     if (spp != 1 || photometric == PHOTOMETRIC_RGB || photometric == PHOTOMETRIC_PALETTE ||
         photometric == PHOTOMETRIC_YCBCR || photometric == PHOTOMETRIC_SEPARATED)
@@ -129,8 +132,7 @@ TiffFile::TiffFile(const std::filesystem::path& path) : path_(path), h_(std::mak
       if (TIFFGetField(tif, TIFFTAG_XRESOLUTION, &xres)) xResolution_ = xres;
       uint16_t pageNo = 0, pageTotal = 0;
       if (TIFFGetField(tif, TIFFTAG_PAGENUMBER, &pageNo, &pageTotal)) declaredPages_ = pageTotal;
-    } else if (static_cast<int>(w) != width_ || static_cast<int>(hgt) != height_ ||
-               bits != bits_) {
+    } else if (static_cast<int>(w) != width_ || static_cast<int>(hgt) != height_ || bits != bits_) {
       fail(page, fmt::format("mixed frame sizes: this page is {}x{} {}-bit but page 0 is "
                              "{}x{} {}-bit",
                              w, hgt, bits, width_, height_, bits_));

@@ -39,15 +39,17 @@ class TiffStackSource final : public FrameSource {
     // declared: the metadata's plane count or the pages' own numbering.
     const long planes = static_cast<long>(sizeT) * sizeC * sizeZ;
     if (md.explicitPlanes.empty() && planes > pages)
-      throw InputError(name, pages,
-                       fmt::format("file is truncated: its metadata describes {} planes ({} time "
-                                   "points x {} channels x {} planes) but only {} pages are present",
-                                   planes, sizeT, sizeC, sizeZ, pages));
+      throw InputError(
+          name, pages,
+          fmt::format("file is truncated: its metadata describes {} planes ({} time "
+                      "points x {} channels x {} planes) but only {} pages are present",
+                      planes, sizeT, sizeC, sizeZ, pages));
     if (tiff_->declaredPages() > pages)
-      throw InputError(name, pages,
-                       fmt::format("file is truncated: its pages are numbered out of {} but only {} "
-                                   "are present",
-                                   tiff_->declaredPages(), pages));
+      throw InputError(
+          name, pages,
+          fmt::format("file is truncated: its pages are numbered out of {} but only {} "
+                      "are present",
+                      tiff_->declaredPages(), pages));
     md.sizeT = sizeT;
     md.sizeC = sizeC;
     md.sizeZ = sizeZ;
@@ -65,9 +67,9 @@ class TiffStackSource final : public FrameSource {
                             : std::string();
     const int z = std::clamp(options.z.value_or(sizeZ / 2), 0, sizeZ - 1);
     if (options.z && *options.z != z)
-      throw InputError(name, std::nullopt,
-                       fmt::format("focal plane {} requested but the stack has {}", *options.z,
-                                   sizeZ));
+      throw InputError(
+          name, std::nullopt,
+          fmt::format("focal plane {} requested but the stack has {}", *options.z, sizeZ));
     const std::string order = md.dimensionOrder.size() == 5 ? md.dimensionOrder : "XYCZT";
     std::map<std::tuple<int, int, int>, int> explicitMap;
     for (const auto& p : md.explicitPlanes) explicitMap[{p.t, p.c, p.z}] = p.page;
@@ -77,17 +79,17 @@ class TiffStackSource final : public FrameSource {
       if (!explicitMap.empty()) {
         const auto it = explicitMap.find({t, info_.channel, z});
         if (it == explicitMap.end())
-          throw InputError(name, t,
-                           fmt::format("OME-XML lists no page for time point {}, channel {}", t,
-                                       info_.channel));
+          throw InputError(
+              name, t,
+              fmt::format("OME-XML lists no page for time point {}, channel {}", t, info_.channel));
         page = it->second;
       } else {
         page = pageFor(order, t, info_.channel, z, sizeT, sizeC, sizeZ);
       }
       if (page < 0 || page >= pages)
-        throw InputError(name, t,
-                         fmt::format("file is truncated: frame {} would be page {} of {}", t,
-                                     page, pages));
+        throw InputError(
+            name, t,
+            fmt::format("file is truncated: frame {} would be page {} of {}", t, page, pages));
       pageOfFrame_[static_cast<size_t>(t)] = page;
     }
 
@@ -100,9 +102,8 @@ class TiffStackSource final : public FrameSource {
     info_.files = {InputFile{file, tiff_->fileSize()}};
     info_.description = fmt::format(
         "{}, {}, {} frames of {}x{} {}-bit{}{}", tiff_->bigTiff() ? "BigTIFF" : "TIFF",
-        tiff_->tiled() ? "tiled" : "striped", sizeT, info_.width, info_.height,
-        info_.bitsPerSample,
-        md.kind == StackMetadata::Kind::OmeXml  ? ", OME-XML"
+        tiff_->tiled() ? "tiled" : "striped", sizeT, info_.width, info_.height, info_.bitsPerSample,
+        md.kind == StackMetadata::Kind::OmeXml   ? ", OME-XML"
         : md.kind == StackMetadata::Kind::ImageJ ? ", ImageJ"
                                                  : "",
         sizeC > 1 ? fmt::format(", channel '{}' of {}", info_.channelName, sizeC) : "");

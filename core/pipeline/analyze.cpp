@@ -22,7 +22,9 @@ namespace budledger::pipeline {
 namespace {
 
 using Clock = std::chrono::steady_clock;
-double since(Clock::time_point t) { return std::chrono::duration<double>(Clock::now() - t).count(); }
+double since(Clock::time_point t) {
+  return std::chrono::duration<double>(Clock::now() - t).count();
+}
 
 // Digests every input file on a helper thread while the frames are worked on.
 class DigestJob {
@@ -61,7 +63,8 @@ std::string firstFile(const io::StackInfo& info) {
 // A focus measure of the frame's centre, to pick a sharp reference frame.
 double centreFocus(const cv::Mat& frame) {
   const int w = std::min(frame.cols, 384), h = std::min(frame.rows, 384);
-  return registration::focusMeasure(frame(cv::Rect((frame.cols - w) / 2, (frame.rows - h) / 2, w, h)));
+  return registration::focusMeasure(
+      frame(cv::Rect((frame.cols - w) / 2, (frame.rows - h) / 2, w, h)));
 }
 
 }  // namespace
@@ -77,8 +80,7 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
   out.pixelUm = options.pixelUm ? options.pixelUm : info.metadata.pixelUmX;
   const int frames = info.frames;
   const std::string file = firstFile(info);
-  if (frames < 2)
-    throw InputError(file, std::nullopt, "a time-lapse needs at least two frames");
+  if (frames < 2) throw InputError(file, std::nullopt, "a time-lapse needs at least two frames");
 
   std::unique_ptr<DigestJob> digests;
   if (options.digests) digests = std::make_unique<DigestJob>(info.files);
@@ -119,6 +121,7 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     out.note = "no trap lattice in the survey frames: registered on the whole image";
   }
   registration::Registrar registrar(referenceFrame, structure, reg);
+  bool secondLook = options.secondLook;
   registration::TrackOptions track = options.tracking;
   track.referenceFrame = reference;
   registration::DriftTracker tracker(registrar, track);
@@ -126,8 +129,8 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
 
   // Registration pass, keeping a bounded sample for the temporal median.
   t = Clock::now();
-  const std::size_t frameBytes = static_cast<std::size_t>(info.width) *
-                                 static_cast<std::size_t>(info.height) * 2;
+  const std::size_t frameBytes =
+      static_cast<std::size_t>(info.width) * static_cast<std::size_t>(info.height) * 2;
   const int budgetFrames =
       static_cast<int>(std::max<std::size_t>(5, options.projectionBudgetBytes / (2 * frameBytes)));
   const std::vector<int> sampled =
@@ -147,6 +150,30 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     }
   }
   out.drift = tracker.finish();
+  const cv::Point2d raw0 = tracker.rawShift(0);  // frame 0 against the reference
+  // Where the structure persists over the whole movie: the weights of the
+  // second look, which no longer count cells that sit in most traps.
+  if (!structure.empty() && options.secondLook && kept.size() >= 5) {
+    const int rw = std::min(info.width, 384), rh = std::min(info.height, 384);
+    const cv::Rect region((info.width - rw) / 2, (info.height - rh) / 2, rw, rh);
+    const cv::Point2d centre(region.x + rw / 2, region.y + rh / 2);
+    const cv::Rect box(-rw / 2, -rh / 2, rw, rh);
+    std::vector<cv::Mat> features;
+    cv::Mat patch;
+    for (const auto& [f, m] : kept) {
+      const auto& d = out.drift[static_cast<size_t>(f)];
+      traps::cropAt(m, centre, cv::Point2d(d.dx, d.dy) + raw0, box, traps::CropSampling::Linear,
+                    patch);
+      features.emplace_back();
+      registration::structureFeatures(patch, features.back(), {1.5, 0.0});
+    }
+    cv::Mat weights = structure.clone();
+    cv::Mat part = weights(region);
+    cv::multiply(part, traps::persistence(features), part);
+    registrar.setStructure(weights);
+  } else {
+    secondLook = false;
+  }
   out.seconds.registration = since(t);
 
   // Traps from the temporal median of the registered sample.
@@ -174,9 +201,9 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
                      "no repeating trap lattice found in the images; supply the trap centres with "
                      "--traps");
   } else if (found.layout.traps.empty()) {
-    throw InputError(file, std::nullopt,
-                     fmt::format("no traps found ({}); supply the trap centres with --traps",
-                                 found.note));
+    throw InputError(
+        file, std::nullopt,
+        fmt::format("no traps found ({}); supply the trap centres with --traps", found.note));
   } else {
     out.layout = std::move(found.layout);
   }
@@ -189,8 +216,9 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
   progress("traps", 1.0);
   out.seconds.traps = since(t);
 
-  // The stages that need every frame's crops.
-  if (!stages.empty()) {
+  // The second look (refinement with the persistent-structure weights) and
+  // the stages that need every frame's crops share one more pass.
+  if (secondLook || !stages.empty()) {
     t = Clock::now();
     PositionContext ctx;
     ctx.name = out.name;
@@ -209,21 +237,37 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     });
     io::FrameStream stream(source, {options.readAhead, 0, frames});
     int index = 0;
+    cv::Point2d newRaw0 = raw0;
+    const std::string_view stage =
+        stages.empty() ? std::string_view("refining") : stages.front()->name();
     while (const cv::Mat* frame = stream.next(&index)) {
-      const auto& d = out.drift[static_cast<size_t>(index)];
-      if (wantNearest)
-        traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Nearest, nearest);
-      if (wantLinear)
-        traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Linear, linear);
-      for (FrameStage* s : stages) {
-        FrameView view;
-        view.frame = index;
-        view.image = frame;
-        view.drift = &d;
-        view.crops = s->sampling() == traps::CropSampling::Nearest ? &nearest : &linear;
-        s->frame(view);
+      auto& d = out.drift[static_cast<size_t>(index)];
+      if (secondLook && !(d.flags & registration::FrameDrift::kInterpolated)) {
+        const auto m = registrar.refineOnly(*frame, cv::Point2d(d.dx, d.dy) + raw0);
+        if (m.refined) {
+          if (index == 0) newRaw0 = m.shift;
+          d.dx = m.shift.x - newRaw0.x;
+          d.dy = m.shift.y - newRaw0.y;
+        }
+      } else if (secondLook) {
+        d.dx += raw0.x - newRaw0.x;
+        d.dy += raw0.y - newRaw0.y;
       }
-      progress(stages.front()->name(), static_cast<double>(index + 1) / frames);
+      if (!stages.empty()) {
+        if (wantNearest)
+          traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Nearest, nearest);
+        if (wantLinear)
+          traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Linear, linear);
+        for (FrameStage* s : stages) {
+          FrameView view;
+          view.frame = index;
+          view.image = frame;
+          view.drift = &d;
+          view.crops = s->sampling() == traps::CropSampling::Nearest ? &nearest : &linear;
+          s->frame(view);
+        }
+      }
+      progress(stage, static_cast<double>(index + 1) / frames);
     }
     out.seconds.stages = since(t);
   }
@@ -244,9 +288,9 @@ namespace {
 void requireNewName(store::Project& project, const std::string& name, const std::string& file) {
   for (const auto& p : project.positions())
     if (p.name == name)
-      throw InputError(file, std::nullopt,
-                       fmt::format("position '{}' is already in project '{}'", name,
-                                   project.path()));
+      throw InputError(
+          file, std::nullopt,
+          fmt::format("position '{}' is already in project '{}'", name, project.path()));
 }
 }  // namespace
 
@@ -283,7 +327,8 @@ int writePosition(store::Project& project, const PositionAnalysis& a, const Anal
   const std::string prefix = fmt::format("position.{}.", a.name);
   if (a.intervalMin) {
     project.setMeta(prefix + "interval_min", fmt::format("{}", *a.intervalMin));
-    if (!project.meta("interval_min")) project.setMeta("interval_min", fmt::format("{}", *a.intervalMin));
+    if (!project.meta("interval_min"))
+      project.setMeta("interval_min", fmt::format("{}", *a.intervalMin));
   }
   if (a.pixelUm) {
     project.setMeta(prefix + "pixel_um", fmt::format("{}", *a.pixelUm));

@@ -6,12 +6,16 @@
 //   register every frame in order, on the static structure, with continuity
 //            (decoding runs on a second thread, input digests on a third)
 //   traps    the temporal median of registered frames gives the trap layout
-//   stages   FrameStage plug-ins see every frame's registered trap crops
+//   refine + every frame once more: the drift refined on the structure that
+//   stages   persists through the movie, and FrameStage plug-ins shown every
+//            frame's registered trap crops
 //   write    position, inputs (path, size, SHA-256), drift, traps and the
 //            stages' results in one transaction
 // Memory is bounded by a few frames plus the projection's sample, however
 // long the movie. Progress is reported per stage; a CancelToken is honoured
-// between frames (Cancelled is thrown and nothing is written).
+// between frames (Cancelled is thrown and nothing is written). The pipeline
+// runs its own threads; callers on small machines do well to switch OpenCV's
+// worker pool off (cv::setNumThreads(1)), as budledger-cli analyze does.
 #include <filesystem>
 #include <optional>
 #include <span>
@@ -46,12 +50,16 @@ struct AnalyzeOptions {
   registration::TrackOptions tracking;
   traps::LatticeOptions lattice;
   traps::TrapFinderOptions finder;
-  int surveyFrames = 4;        // frames the lattice is first estimated from
-  int referenceCandidates = 4; // the sharpest of the first few frames is the reference
-  int projectionFrames = 15;   // frames in the temporal median (fewer for very large frames)
+  int surveyFrames = 4;         // frames the lattice is first estimated from
+  int referenceCandidates = 4;  // the sharpest of the first few frames is the reference
+  int projectionFrames = 15;    // frames in the temporal median (fewer for very large frames)
   std::size_t projectionBudgetBytes = std::size_t{96} << 20;
-  int readAhead = 3;           // decoded frames buffered ahead of registration
-  bool digests = true;         // SHA-256 of every input file
+  int readAhead = 3;  // decoded frames buffered ahead of registration
+  // Refine every frame once more with weights on the structure that persists
+  // through the movie (cells seated in most traps otherwise count as chip,
+  // and bias the drift as they grow); shares its pass with the stages.
+  bool secondLook = true;
+  bool digests = true;  // SHA-256 of every input file
 };
 
 struct AnalyzeTimings {

@@ -7,7 +7,9 @@
 // commit() inside the transaction that writes the position, so a stage's
 // results land in the project together with the position or not at all.
 // A stage must not keep references to the crops past frame(): their buffers
-// are reused for the next frame.
+// are reused for the next frame. The drift of frame k is final when frame(k)
+// is called (the pipeline refines it in the same pass); confidences, focus
+// and flags are final from begin() on.
 #include <string>
 #include <string_view>
 #include <vector>
@@ -35,9 +37,9 @@ struct PositionContext {
 
 struct FrameView {
   int frame = 0;
-  const cv::Mat* image = nullptr;                  // the whole frame as decoded
+  const cv::Mat* image = nullptr;  // the whole frame as decoded
   const registration::FrameDrift* drift = nullptr;
-  const std::vector<cv::Mat>* crops = nullptr;     // one per trap, in layout order (= trap id)
+  const std::vector<cv::Mat>* crops = nullptr;  // one per trap, in layout order (= trap id)
 };
 
 class FrameStage {

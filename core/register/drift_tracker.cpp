@@ -99,7 +99,8 @@ DriftTrack DriftTracker::finish() const {
       const size_t lo = *(after - 1), hi = *after;
       const cv::Point2d a = at(lo), b = at(hi);
       if (cv::norm(b - a) <= options_.jumpPx) {
-        const double t = static_cast<double>(frames_[i] - frames_[lo]) / (frames_[hi] - frames_[lo]);
+        const double t =
+            static_cast<double>(frames_[i] - frames_[lo]) / (frames_[hi] - frames_[lo]);
         fill = a + t * (b - a);
       } else if (std::min(cv::norm(measured - a), cv::norm(measured - b)) < options_.outlierPx) {
         fill = measured;
@@ -119,8 +120,7 @@ DriftTrack DriftTracker::finish() const {
     }
   }
   for (size_t i = 1; i < n; ++i)
-    if (std::hypot(track[i].dx - track[i - 1].dx, track[i].dy - track[i - 1].dy) >
-        options_.jumpPx)
+    if (std::hypot(track[i].dx - track[i - 1].dx, track[i].dy - track[i - 1].dy) > options_.jumpPx)
       track[i].flags |= FrameDrift::kJump;
   return track;
 }

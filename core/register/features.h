@@ -9,8 +9,8 @@
 namespace budledger::registration {
 
 struct FeatureOptions {
-  double smoothSigma = 1.5;     // px at the image's own scale
-  double highPassSigma = 0.0;   // 0: no local-mean removal
+  double smoothSigma = 1.5;    // px at the image's own scale
+  double highPassSigma = 0.0;  // 0: no local-mean removal
 };
 
 void structureFeatures(const cv::Mat& image, cv::Mat& out, const FeatureOptions& options);

@@ -6,8 +6,7 @@
 
 namespace budledger::registration {
 
-void PhaseCorrelator::prepare(const cv::Mat& features, const cv::Mat& weights,
-                              cv::Mat& spectrum) {
+void PhaseCorrelator::prepare(const cv::Mat& features, const cv::Mat& weights, cv::Mat& spectrum) {
   scratch_.create(padded_, CV_32F);
   scratch_.setTo(0);
   cv::Mat roi = scratch_(cv::Rect(cv::Point(), size_));
@@ -29,7 +28,8 @@ void forEachCcs(cv::Mat& s, F&& f) {
     const int col = c == 0 ? 0 : cols - 1;
     const int fx = c == 0 ? 0 : cols / 2;
     f(&s.at<float>(0, col), nullptr, fx, 0);
-    for (int y = 1; y + 1 < rows; y += 2) f(&s.at<float>(y, col), &s.at<float>(y + 1, col), fx, (y + 1) / 2);
+    for (int y = 1; y + 1 < rows; y += 2)
+      f(&s.at<float>(y, col), &s.at<float>(y + 1, col), fx, (y + 1) / 2);
     if (rows % 2 == 0) f(&s.at<float>(rows - 1, col), nullptr, fx, rows / 2);
   }
   const int end = cols % 2 == 0 ? cols - 1 : cols;  // one past the last paired column
@@ -72,7 +72,7 @@ const cv::Mat& PhaseCorrelator::correlate(const cv::Mat& features) {
       return;
     }
     const float mag2 = *re * *re + *im * *im;
-    const float k = whitening_ == 1.0f ? b / (std::sqrt(mag2) + 1e-12f)
+    const float k = whitening_ == 1.0f   ? b / (std::sqrt(mag2) + 1e-12f)
                     : whitening_ == 0.5f ? b / (std::sqrt(std::sqrt(mag2)) + 1e-12f)
                                          : b / (std::pow(mag2, 0.5f * whitening_) + 1e-12f);
     *re *= k;

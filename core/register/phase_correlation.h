@@ -6,8 +6,8 @@
 // harmonics, full whitening raises the many empty frequencies to the same
 // weight and lets noise and cells decide, so the registration uses 0.5
 // (partial whitening), which keeps a brightness gain from mattering while
-// the harmonics dominate. The result is then weighted by a band-pass: a Gaussian low-pass keeps pixel noise from
-// dominating and makes the peak smooth enough for a sub-pixel fit; a high-pass
+// the harmonics dominate. The result is then weighted by a band-pass: a Gaussian low-pass keeps
+// pixel noise from dominating and makes the peak smooth enough for a sub-pixel fit; a high-pass
 // drops the slow shading that is fixed to the camera and would pull the
 // estimate towards zero. Spectra are kept in OpenCV's packed (CCS) form. Not thread-safe (scratch
 // buffers are reused).

@@ -37,8 +37,7 @@ void TranslationRefiner::setReference(const cv::Mat& patch, const cv::Mat& weigh
   prepare(w, base_);
 }
 
-bool TranslationRefiner::warp(const cv::Mat& features, cv::Point2d at, const Sums& s,
-                              Moments& m) {
+bool TranslationRefiner::warp(const cv::Mat& features, cv::Point2d at, const Sums& s, Moments& m) {
   const int w = ref_.cols, h = ref_.rows;
   const int ix = static_cast<int>(std::floor(at.x)), iy = static_cast<int>(std::floor(at.y));
   const float fx = static_cast<float>(at.x - ix), fy = static_cast<float>(at.y - iy);
@@ -165,7 +164,8 @@ RefineResult TranslationRefiner::refine(const cv::Mat& features, cv::Point2d off
   prepare(weights, robust_);
   RefineResult again = result;
   iterate(features, offset, robust_, options, again);
-  if (again.converged && std::hypot(again.shift.x - result.shift.x, again.shift.y - result.shift.y) < 1.0)
+  if (again.converged &&
+      std::hypot(again.shift.x - result.shift.x, again.shift.y - result.shift.y) < 1.0)
     return again;
   return result;
 }

@@ -14,7 +14,7 @@
 namespace budledger::registration {
 
 struct RefineResult {
-  cv::Point2d shift;       // image(x + shift) ~ gain * reference(x) + offset
+  cv::Point2d shift;  // image(x + shift) ~ gain * reference(x) + offset
   double gain = 1;
   double correlation = 0;  // weighted correlation of the aligned patches
   bool converged = false;

@@ -41,8 +41,8 @@ Registrar::Registrar(const cv::Mat& reference, const cv::Mat& structure,
             (structure.type() == CV_32F && structure.size() == reference.size()));
   const int ww = std::min(options.coarseWindow, frameSize_.width);
   const int wh = std::min(options.coarseWindow, frameSize_.height);
-  factor_ = std::max(1, static_cast<int>(std::ceil(std::max(ww, wh) /
-                                                   static_cast<double>(options.coarseSize))));
+  factor_ = std::max(
+      1, static_cast<int>(std::ceil(std::max(ww, wh) / static_cast<double>(options.coarseSize))));
   coarseRect_ = centred(frameSize_, cv::Size(ww / factor_ * factor_, wh / factor_ * factor_));
   searchRadius_ = options.searchRadius > 0 ? options.searchRadius : std::min(ww, wh) / 4.0;
   maxShift_ = options.maxShift > 0 ? options.maxShift
@@ -78,12 +78,12 @@ Registrar::FinePatch* Registrar::finePatchFor(cv::Point shift) {
   sh &= ~1;
   if (sw < 32 || sh < 32) return nullptr;
   cv::Point origin = centred(frameSize_, cv::Size(sw, sh)).tl();
-  origin.x = std::clamp(origin.x, std::max(kMargin, kMargin - shift.x),
-                        std::min(frameSize_.width - sw - kMargin,
-                                 frameSize_.width - sw - kMargin - shift.x));
-  origin.y = std::clamp(origin.y, std::max(kMargin, kMargin - shift.y),
-                        std::min(frameSize_.height - sh - kMargin,
-                                 frameSize_.height - sh - kMargin - shift.y));
+  origin.x = std::clamp(
+      origin.x, std::max(kMargin, kMargin - shift.x),
+      std::min(frameSize_.width - sw - kMargin, frameSize_.width - sw - kMargin - shift.x));
+  origin.y = std::clamp(
+      origin.y, std::max(kMargin, kMargin - shift.y),
+      std::min(frameSize_.height - sh - kMargin, frameSize_.height - sh - kMargin - shift.y));
   const std::array<int, 4> key{origin.x, origin.y, sw, sh};
   auto it = fine_.find(key);
   if (it != fine_.end()) return &it->second;
@@ -131,19 +131,35 @@ Measurement Registrar::measure(const cv::Mat& frame, cv::Point2d prediction) {
   const cv::Point2d coarse = chosen.shift * f + ws;
   m.shift = coarse;
 
-  // Fine: Gauss-Newton at half, then full resolution, around the integer
-  // part of the coarse estimate.
-  const cv::Point whole(static_cast<int>(std::lround(coarse.x)),
-                        static_cast<int>(std::lround(coarse.y)));
+  refine(frame, coarse, 0.75 * f + 1.5, m);
+  return m;
+}
+
+Measurement Registrar::refineOnly(const cv::Mat& frame, cv::Point2d estimate) {
+  CV_Assert(frame.size() == frameSize_ && frame.type() == refFrame_.type());
+  Measurement m;
+  m.shift = estimate;
+  refine(frame, estimate, 1.5, m);
+  return m;
+}
+
+void Registrar::setStructure(const cv::Mat& structure) {
+  CV_Assert(structure.empty() || (structure.type() == CV_32F && structure.size() == frameSize_));
+  structure_ = structure.empty() ? cv::Mat() : structure.clone();
+  fine_.clear();
+}
+
+// Gauss-Newton at half, then full resolution, around the integer part of
+// `start`, moving at most `reach` px from it.
+void Registrar::refine(const cv::Mat& frame, cv::Point2d start, double reach, Measurement& m) {
+  const cv::Point whole(static_cast<int>(std::lround(start.x)),
+                        static_cast<int>(std::lround(start.y)));
   FinePatch* p = finePatchFor(whole);
-  if (!p) return m;
+  if (!p) return;
   const cv::Rect target = p->rect + whole;
   patchFeatures(frame, grown(target, kMargin), halfRegion_, halfFeatures_, fullFeatures_);
   constexpr double hm = kMargin / 2;
-  // The coarse stage is good to about half its pixel; the refinement may
-  // move that far and a little more, never to a neighbouring trap.
-  const double reach = 0.75 * f + 1.5;
-  cv::Point2d residual = coarse - cv::Point2d(whole);
+  cv::Point2d residual = start - cv::Point2d(whole);
   const RefineResult h = p->half.refine(halfFeatures_, {hm, hm}, residual / 2,
                                         {options_.refineIterations, 0.02, false});
   if (h.converged && std::hypot(2 * h.shift.x - residual.x, 2 * h.shift.y - residual.y) < reach)
@@ -151,7 +167,7 @@ Measurement Registrar::measure(const cv::Mat& frame, cv::Point2d prediction) {
   const RefineResult r = p->full.refine(fullFeatures_, {kMargin, kMargin}, residual,
                                         {options_.refineIterations, 0.003, options_.robust});
   m.correlation = r.correlation;
-  const cv::Point2d moved = cv::Point2d(whole) + r.shift - coarse;
+  const cv::Point2d moved = cv::Point2d(whole) + r.shift - start;
   if (r.converged && std::hypot(moved.x, moved.y) < reach) {
     m.shift = cv::Point2d(whole) + r.shift;
     m.refined = true;
@@ -162,7 +178,6 @@ Measurement Registrar::measure(const cv::Mat& frame, cv::Point2d prediction) {
   const cv::Mat inner = fullFeatures_(cv::Rect(kMargin, kMargin, target.width, target.height));
   const double mean = cv::mean(frame(target))[0];
   m.focus = mean > 0 ? inner.dot(inner) / static_cast<double>(inner.total()) / (mean * mean) : 0;
-  return m;
 }
 
 }  // namespace budledger::registration

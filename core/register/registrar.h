@@ -9,8 +9,8 @@
 // that cells, debris and fixed camera patterns, which do not, pull the
 // estimate as little as possible. The coarse stage is not weighted: a
 // weighted, purely periodic reference would make every lattice alias match
-// equally well, and the non-periodic rest of the chip is what tells them apart. Holds reusable buffers: one
-// Registrar per thread.
+// equally well, and the non-periodic rest of the chip is what tells them apart. Holds reusable
+// buffers: one Registrar per thread.
 #include <array>
 #include <map>
 
@@ -22,12 +22,12 @@
 namespace budledger::registration {
 
 struct RegistrationOptions {
-  int coarseWindow = 512;     // side of the full-resolution region the coarse stage sees
-  int coarseSize = 128;       // which is reduced to at most this many pixels per side
-  int finePatch = 192;        // side of the full-resolution patch of the fine stage
-  double searchRadius = 0;    // bound on |shift - prediction| in px; 0 = a quarter of the window
-  double maxShift = 0;        // bound on |shift| in px; 0 = 45% of the frame's smaller side
-  double jumpRatio = 1.6;     // a peak outside the search disc must be this much higher to win
+  int coarseWindow = 512;   // side of the full-resolution region the coarse stage sees
+  int coarseSize = 128;     // which is reduced to at most this many pixels per side
+  int finePatch = 192;      // side of the full-resolution patch of the fine stage
+  double searchRadius = 0;  // bound on |shift - prediction| in px; 0 = a quarter of the window
+  double maxShift = 0;      // bound on |shift| in px; 0 = 45% of the frame's smaller side
+  double jumpRatio = 1.6;   // a peak outside the search disc must be this much higher to win
   // The chip's lattice vectors, when known: a far peak one lattice vector
   // (or a few) from the near one is an alias of it, never a jump.
   cv::Point2d latticeA{0, 0}, latticeB{0, 0};
@@ -36,12 +36,12 @@ struct RegistrationOptions {
 };
 
 struct Measurement {
-  cv::Point2d shift;        // frame(x + shift) ~ reference(x)
-  double coarsePeak = 0;    // phase-correlation peak of the coarse stage
-  double correlation = 0;   // weighted correlation of the aligned patches after refinement
-  double focus = 0;         // normalised gradient energy of the frame's fine patch
-  bool jump = false;        // the coarse peak was taken outside the search disc
-  bool refined = false;     // the Gauss-Newton refinement converged
+  cv::Point2d shift;       // frame(x + shift) ~ reference(x)
+  double coarsePeak = 0;   // phase-correlation peak of the coarse stage
+  double correlation = 0;  // weighted correlation of the aligned patches after refinement
+  double focus = 0;        // normalised gradient energy of the frame's fine patch
+  bool jump = false;       // the coarse peak was taken outside the search disc
+  bool refined = false;    // the Gauss-Newton refinement converged
 };
 
 class Registrar {
@@ -51,6 +51,11 @@ class Registrar {
   Registrar(const cv::Mat& reference, const cv::Mat& structure, const RegistrationOptions& options);
 
   Measurement measure(const cv::Mat& frame, cv::Point2d prediction);
+  // The refinement alone, from an estimate good to about a pixel (a second
+  // look with better structure weights); `shift` stays within 1.5 px of it.
+  Measurement refineOnly(const cv::Mat& frame, cv::Point2d estimate);
+  // Replaces the structure weights of the refinement.
+  void setStructure(const cv::Mat& structure);
   const RegistrationOptions& options() const { return options_; }
   double searchRadius() const { return searchRadius_; }
 
@@ -61,6 +66,7 @@ class Registrar {
   };
   FinePatch* finePatchFor(cv::Point shift);  // nullptr when the shift leaves no room
   bool isAlias(cv::Point2d offset) const;
+  void refine(const cv::Mat& frame, cv::Point2d start, double reach, Measurement& m);
 
   RegistrationOptions options_;
   cv::Size frameSize_;
@@ -68,7 +74,7 @@ class Registrar {
   int factor_ = 1;       // reduction of the coarse stage
   double searchRadius_ = 0, maxShift_ = 0;
   PhaseCorrelator coarse_{0.35, 0.03, 0.5f};
-  cv::Mat refFrame_, structure_;  // full resolution
+  cv::Mat refFrame_, structure_;                  // full resolution
   std::map<std::array<int, 4>, FinePatch> fine_;  // by patch origin and size
   cv::Mat small_, smallFeatures_, halfRegion_, halfFeatures_, fullFeatures_;
 };

@@ -2,23 +2,34 @@
 
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <chrono>
 #include <ctime>
 #include <filesystem>
 
+#include <set>
+
+#include "core/store/reanalysis.h"
 #include "core/store/schema.h"
 
 namespace budledger::store {
 
-Project::Project(std::string path, std::unique_ptr<Database> db)
-    : path_(std::move(path)), db_(std::move(db)) {}
+Project::Project(std::string path, std::unique_ptr<Database> db, std::unique_ptr<WriteLock> lock,
+                 std::string readOnlyReason)
+    : path_(std::move(path)),
+      lock_(std::move(lock)),
+      db_(std::move(db)),
+      readOnlyReason_(std::move(readOnlyReason)) {}
 
 Project Project::create(const std::string& path) {
   if (std::filesystem::exists(path))
     throw StoreError(fmt::format("project '{}' already exists; refusing to overwrite it", path));
+  std::string holder;
+  auto lock = WriteLock::tryAcquire(path, holder);
+  if (!lock) throw StoreError(fmt::format("cannot create project '{}': {}", path, holder));
   auto db = std::make_unique<Database>(path, Database::Access::ReadWrite);
   migrate(*db);
-  Project p(path, std::move(db));
+  Project p(path, std::move(db), std::move(lock), "");
   p.setMeta("created_utc", utcNowIso());
   return p;
 }
@@ -26,20 +37,62 @@ Project Project::create(const std::string& path) {
 Project Project::open(const std::string& path, Database::Access access) {
   if (!std::filesystem::exists(path))
     throw StoreError(fmt::format("project '{}' does not exist", path));
-  auto db = std::make_unique<Database>(path, access);
+  std::unique_ptr<WriteLock> lock;
+  std::string reason = "opened read-only";
   if (access == Database::Access::ReadWrite) {
+    std::string holder;
+    lock = WriteLock::tryAcquire(path, holder);
+    if (!lock)
+      reason = holder.starts_with("cannot")
+                   ? fmt::format("read-only: {}", holder)
+                   : fmt::format("read-only: another program is writing this project ({})", holder);
+  }
+  auto db = std::make_unique<Database>(
+      path, lock ? Database::Access::ReadWrite : Database::Access::ReadOnly);
+  if (lock) {
     migrate(*db);
   } else {
     auto st = db->prepare("PRAGMA user_version");
     st.step();
     if (st.integer(0) != latestSchemaVersion())
-      throw StoreError(fmt::format(
-          "project '{}' has schema version {}; open it writable to migrate", path, st.integer(0)));
+      throw StoreError(
+          fmt::format("project '{}' has schema version {} and must be migrated, "
+                      "which needs it writable ({})",
+                      path, st.integer(0), reason));
   }
-  return Project(path, std::move(db));
+  Project p(path, std::move(db), std::move(lock), lock ? "" : reason);
+  if (!p.readOnly()) p.journalUnrecordedRuns();
+  return p;
+}
+
+void Project::requireWritable() const {
+  if (readOnly()) throw StoreError(fmt::format("project '{}' is {}", path_, readOnlyReason_));
+}
+
+// Files made before the journal existed hold runs that no entry records.
+// Recording them (in id order, each covering every position, as the latest
+// run then did) gives every run its entry and the materialised state its base.
+void Project::journalUnrecordedRuns() {
+  std::set<std::int64_t> recorded;
+  auto st = db_->prepare("SELECT target FROM journal WHERE action = 'engine-run'");
+  while (st.step())
+    if (auto t = parseTarget(st.text(0))) recorded.insert(t->id);
+  std::vector<std::int64_t> missing;
+  auto runs = db_->prepare("SELECT id FROM engine_runs ORDER BY id");
+  while (runs.step())
+    if (!recorded.contains(runs.int64(0))) missing.push_back(runs.int64(0));
+  if (missing.empty()) return;
+  std::vector<int> all;
+  for (const auto& p : positions()) all.push_back(p.id);
+  Transaction tx(*db_);
+  for (auto run : missing)
+    journalEngineRun(*db_, run, all, Actor{"budledger", "system"},
+                     "engine run made before this project had a journal");
+  tx.commit();
 }
 
 void Project::setMeta(const std::string& key, const std::string& value) {
+  requireWritable();
   db_->prepare(
          "INSERT INTO meta(key, value) VALUES (?1, ?2) "
          "ON CONFLICT(key) DO UPDATE SET value = excluded.value")
@@ -56,6 +109,7 @@ std::optional<std::string> Project::meta(const std::string& key) {
 }
 
 int Project::addPosition(const PositionRecord& p) {
+  requireWritable();
   db_->prepare(
          "INSERT INTO positions(name, group_name, frame_count, width, height) "
          "VALUES (?1, ?2, ?3, ?4, ?5)")
@@ -79,12 +133,19 @@ std::vector<PositionRecord> Project::positions() {
 }
 
 void Project::addInput(const InputRecord& in) {
+  requireWritable();
   db_->prepare("INSERT INTO inputs(position_id, path, size_bytes, sha256) VALUES (?1,?2,?3,?4)")
       .bind(1, in.position)
       .bind(2, in.path)
       .bind(3, in.sizeBytes)
       .bind(4, in.sha256)
       .run();
+}
+
+std::optional<PositionRecord> Project::positionByName(const std::string& name) {
+  for (auto& p : positions())
+    if (p.name == name) return p;
+  return std::nullopt;
 }
 
 std::vector<InputRecord> Project::inputs() {
@@ -95,6 +156,7 @@ std::vector<InputRecord> Project::inputs() {
 }
 
 void Project::replaceTraps(int position, const std::vector<TrapRecord>& traps) {
+  requireWritable();
   Transaction tx(*db_);
   db_->prepare("DELETE FROM traps WHERE position_id = ?1").bind(1, position).run();
   auto ins = db_->prepare(
@@ -120,6 +182,7 @@ std::vector<TrapRecord> Project::traps(std::optional<int> position) {
 }
 
 void Project::replaceDrift(int position, const std::vector<DriftRecord>& drift) {
+  requireWritable();
   Transaction tx(*db_);
   db_->prepare("DELETE FROM drift WHERE position_id = ?1").bind(1, position).run();
   auto ins = db_->prepare(
@@ -147,7 +210,23 @@ std::vector<DriftRecord> Project::drift(int position) {
   return out;
 }
 
-std::int64_t Project::addEngineRun(const EngineRun& run, const std::vector<Event>& proposals) {
+std::int64_t Project::addEngineRun(const EngineRun& run, const std::vector<Event>& proposals,
+                                   const RunRecording& recording) {
+  requireWritable();
+  std::vector<int> covered = recording.positions;
+  std::set<int> known;
+  for (const auto& p : positions()) known.insert(p.id);
+  if (covered.empty()) covered.assign(known.begin(), known.end());
+  for (int p : covered)
+    if (!known.contains(p))
+      throw StoreError(fmt::format("engine run covers position {}, which does not exist", p));
+  std::sort(covered.begin(), covered.end());
+  covered.erase(std::unique(covered.begin(), covered.end()), covered.end());
+  for (const auto& e : proposals)
+    if (!std::binary_search(covered.begin(), covered.end(), e.position))
+      throw StoreError(
+          fmt::format("engine run proposes an event for position {}, which the run does not cover",
+                      e.position));
   Transaction tx(*db_);
   db_->prepare(
          "INSERT INTO engine_runs(started_utc, engine_version, parameters_json, input_digest) "
@@ -169,6 +248,7 @@ std::int64_t Project::addEngineRun(const EngineRun& run, const std::vector<Event
         .bind(5, toString(e.kind))
         .bind(6, e.confidence)
         .run();
+  journalEngineRun(*db_, runId, covered, recording.by, recording.reason);
   tx.commit();
   return runId;
 }
@@ -182,6 +262,7 @@ std::optional<EngineRun> Project::latestRun() {
 }
 
 void Project::addMeasurements(std::int64_t run, const std::vector<MeasurementRecord>& rows) {
+  requireWritable();
   Transaction tx(*db_);
   auto ins = db_->prepare(
       "INSERT OR REPLACE INTO measurements(run_id, position_id, trap_id, frame, occupancy, "

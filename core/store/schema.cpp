@@ -9,7 +9,7 @@ namespace budledger::store {
 namespace {
 
 // Never edit a migration that has shipped: add a new one.
-constexpr std::array<std::string_view, 1> kMigrations{
+constexpr std::array<std::string_view, 2> kMigrations{
     // 1: the first project file.
     R"sql(
 CREATE TABLE meta (
@@ -81,6 +81,72 @@ CREATE TABLE measurements (
   PRIMARY KEY (run_id, position_id, trap_id, frame)
 );
 CREATE INDEX proposals_by_trap ON proposals(run_id, position_id, trap_id, frame);
+)sql",
+    // 2: the journal of human decisions, the state it materialises, sign-offs.
+    R"sql(
+CREATE TABLE journal (
+  seq          INTEGER PRIMARY KEY,
+  utc          TEXT NOT NULL,
+  actor        TEXT NOT NULL,
+  role         TEXT NOT NULL,
+  action       TEXT NOT NULL CHECK (action IN ('accept','move','delete','add','set-outcome',
+                 'note','undo','redo','sign-off','revoke','engine-run')),
+  target       TEXT NOT NULL,
+  value_before TEXT NOT NULL,
+  value_after  TEXT NOT NULL,
+  reason       TEXT NOT NULL,
+  origin       TEXT NOT NULL,
+  prev_hash    TEXT NOT NULL,
+  hash         TEXT NOT NULL
+);
+CREATE TRIGGER journal_no_update BEFORE UPDATE ON journal
+BEGIN SELECT RAISE(ABORT, 'the journal is append-only: entries cannot be changed'); END;
+CREATE TRIGGER journal_no_delete BEFORE DELETE ON journal
+BEGIN SELECT RAISE(ABORT, 'the journal is append-only: entries cannot be deleted'); END;
+CREATE TABLE current_events (
+  event_id        INTEGER PRIMARY KEY,
+  position_id     INTEGER NOT NULL REFERENCES positions(id),
+  trap_id         INTEGER NOT NULL,
+  frame           INTEGER NOT NULL,
+  kind            TEXT NOT NULL CHECK (kind IN ('bud','separation','death','washout','arrival')),
+  confidence      REAL NOT NULL,
+  status          TEXT NOT NULL CHECK (status IN ('proposed','accepted','moved','added','rejected')),
+  origin_proposal INTEGER REFERENCES proposals(id),
+  proposed_frame  INTEGER,
+  last_seq        INTEGER NOT NULL
+);
+CREATE INDEX current_events_by_trap ON current_events(position_id, trap_id);
+CREATE TABLE outcome_overrides (
+  position_id INTEGER NOT NULL REFERENCES positions(id),
+  trap_id     INTEGER NOT NULL,
+  mother      INTEGER NOT NULL,
+  outcome     TEXT NOT NULL CHECK (outcome IN ('death','washout','end-of-imaging')),
+  last_seq    INTEGER NOT NULL,
+  PRIMARY KEY (position_id, trap_id, mother)
+);
+CREATE TABLE signoffs (
+  id          INTEGER PRIMARY KEY,
+  scope_kind  TEXT NOT NULL CHECK (scope_kind IN ('experiment','position','trap')),
+  position_id INTEGER,
+  trap_id     INTEGER,
+  scope_name  TEXT NOT NULL,
+  person      TEXT NOT NULL,
+  role        TEXT NOT NULL,
+  meaning     TEXT NOT NULL CHECK (meaning IN ('reviewed','approved')),
+  digest      TEXT NOT NULL,
+  utc         TEXT NOT NULL,
+  revoked_seq INTEGER
+);
+CREATE TABLE carry_over_review (
+  run_id      INTEGER NOT NULL REFERENCES engine_runs(id),
+  event_id    INTEGER NOT NULL,
+  position_id INTEGER NOT NULL,
+  trap_id     INTEGER NOT NULL,
+  frame       INTEGER NOT NULL,
+  kind        TEXT NOT NULL,
+  status      TEXT NOT NULL,
+  PRIMARY KEY (run_id, event_id)
+);
 )sql",
 };
 

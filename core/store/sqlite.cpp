@@ -10,7 +10,11 @@ namespace {
 }  // namespace
 
 Database::Database(const std::string& path, Access access) : access_(access) {
-  const int flags = access == Access::ReadOnly ? SQLITE_OPEN_READONLY
+  // A read-only Database is a read-write connection that refuses to change
+  // anything (query_only): unlike SQLITE_OPEN_READONLY it can tidy the WAL
+  // and shared-memory files away when it is the last to close. SQLite falls
+  // back to reading only when the file itself is write-protected.
+  const int flags = access == Access::ReadOnly ? SQLITE_OPEN_READWRITE
                                                : (SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE);
   if (sqlite3_open_v2(path.c_str(), &db_, flags | SQLITE_OPEN_NOMUTEX, nullptr) != SQLITE_OK) {
     std::string msg = fmt::format("cannot open project '{}': {}", path,
@@ -21,6 +25,7 @@ Database::Database(const std::string& path, Access access) : access_(access) {
   }
   sqlite3_busy_timeout(db_, 2000);
   exec("PRAGMA foreign_keys = ON");
+  if (access == Access::ReadOnly) exec("PRAGMA query_only = ON");
   if (access == Access::ReadWrite) {
     exec("PRAGMA journal_mode = WAL");
     exec("PRAGMA synchronous = FULL");

@@ -20,7 +20,8 @@ void bilinear(const cv::Mat& frame, double x0, double y0, cv::Mat& out) {
     T* o = out.ptr<T>(y);
     for (int x = 0; x < out.cols; ++x) {
       const int a = col(ix + x), b = col(ix + x + 1);
-      const float v = (1 - fy) * ((1 - fx) * r0[a] + fx * r0[b]) + fy * ((1 - fx) * r1[a] + fx * r1[b]);
+      const float v =
+          (1 - fy) * ((1 - fx) * r0[a] + fx * r0[b]) + fy * ((1 - fx) * r1[a] + fx * r1[b]);
       o[x] = cv::saturate_cast<T>(v);
     }
   }

@@ -26,7 +26,8 @@ class Autocorrelation {
   Autocorrelation(const std::vector<cv::Mat>& frames, int analysisSize) {
     const cv::Size full = frames.front().size();
     scale_ = std::max(1.0, std::max(full.width, full.height) / static_cast<double>(analysisSize));
-    const cv::Size small(static_cast<int>(full.width / scale_), static_cast<int>(full.height / scale_));
+    const cv::Size small(static_cast<int>(full.width / scale_),
+                         static_cast<int>(full.height / scale_));
     // Lags up to 40% of the size are read: padding by that much keeps the
     // correlation linear (no wrap-around) at those lags.
     padded_ = cv::Size(cv::getOptimalDFTSize(small.width * 7 / 5 + 2),
@@ -139,9 +140,10 @@ void refineAtFullResolution(const std::vector<cv::Mat>& frames, Lattice& lat) {
   // Features only where the matching looks.
   const double rx = kReach * (std::abs(lat.a.x) + std::abs(lat.b.x)) + kSearch + 4;
   const double ry = kReach * (std::abs(lat.a.y) + std::abs(lat.b.y)) + kSearch + 4;
-  const cv::Rect region = cv::Rect(static_cast<int>(centre.x - rx), static_cast<int>(centre.y - ry),
-                                   static_cast<int>(side + 2 * rx), static_cast<int>(side + 2 * ry)) &
-                          cv::Rect(cv::Point(), full);
+  const cv::Rect region =
+      cv::Rect(static_cast<int>(centre.x - rx), static_cast<int>(centre.y - ry),
+               static_cast<int>(side + 2 * rx), static_cast<int>(side + 2 * ry)) &
+      cv::Rect(cv::Point(), full);
   cv::Mat features;
   registration::structureFeatures(frames.front()(region), features, {1.5, 0.0});
   const cv::Rect local = centre - region.tl();
@@ -169,8 +171,10 @@ void refineAtFullResolution(const std::vector<cv::Mat>& frames, Lattice& lat) {
       if (best < 0.5 || loc.x == 0 || loc.y == 0 || loc.x + 1 == score.cols ||
           loc.y + 1 == score.rows)
         continue;
-      const double dx = vertex(score.at<float>(loc.y, loc.x - 1), best, score.at<float>(loc.y, loc.x + 1));
-      const double dy = vertex(score.at<float>(loc.y - 1, loc.x), best, score.at<float>(loc.y + 1, loc.x));
+      const double dx =
+          vertex(score.at<float>(loc.y, loc.x - 1), best, score.at<float>(loc.y, loc.x + 1));
+      const double dy =
+          vertex(score.at<float>(loc.y - 1, loc.x), best, score.at<float>(loc.y + 1, loc.x));
       pts.emplace_back(at.x + loc.x + dx - local.x, at.y + loc.y + dy - local.y);
       idx.emplace_back(n, m);
       w.push_back(best);
@@ -222,11 +226,13 @@ std::optional<Lattice> findLattice(const std::vector<cv::Mat>& frames,
   // posts of one trap (the motif) do not.
   // (A double beyond the reliable lags cannot be checked and is not held
   // against the candidate.)
+  // Nor is half a lattice vector, which a trap of two mirrored halves
+  // produces: its double is a peak, a clearly stronger one.
   for (auto& c : candidates) {
     const cv::Point2d two = 2 * c.lag;
     float v2 = c.value;
     if (std::abs(two.x) <= maxLag && std::abs(two.y) <= maxLag) ac.refine(two, 1, &v2);
-    c.score = std::min<double>(c.value, v2);
+    c.score = c.value < 0.8f * v2 ? 0.0 : std::min<double>(c.value, v2);
   }
   double best = 0;
   for (const auto& c : candidates) best = std::max(best, c.score);
@@ -234,8 +240,9 @@ std::optional<Lattice> findLattice(const std::vector<cv::Mat>& frames,
   std::vector<Candidate> strong;
   for (const auto& c : candidates)
     if (c.score >= options.strongFraction * best) strong.push_back(c);
-  std::sort(strong.begin(), strong.end(),
-            [](const Candidate& p, const Candidate& q) { return cv::norm(p.lag) < cv::norm(q.lag); });
+  std::sort(strong.begin(), strong.end(), [](const Candidate& p, const Candidate& q) {
+    return cv::norm(p.lag) < cv::norm(q.lag);
+  });
   if (strong.empty()) return std::nullopt;
   cv::Point2d a = strong.front().lag, b;
   bool haveB = false;

@@ -26,9 +26,9 @@ struct Lattice {
 };
 
 struct LatticeOptions {
-  int analysisSize = 384;      // frames are reduced so their longer side is at most this
-  double minPitchPx = 10;      // shortest lattice vector accepted (full-resolution px)
-  double strongFraction = 0.5; // a peak is a lattice candidate above this share of the best
+  int analysisSize = 384;       // frames are reduced so their longer side is at most this
+  double minPitchPx = 10;       // shortest lattice vector accepted (full-resolution px)
+  double strongFraction = 0.5;  // a peak is a lattice candidate above this share of the best
 };
 
 // From one or more frames of one position (not necessarily registered).

@@ -57,7 +57,8 @@ cv::Mat periodicAverage(const cv::Mat& values, const Lattice& lattice, cv::Rect 
   for (int y = 0; y < fold.height; ++y) {
     const float* row = values.ptr<float>(fold.y + y) + fold.x;
     for (int x = 0; x < fold.width; ++x) {
-      const int b = binOf[static_cast<size_t>(y) * static_cast<size_t>(fold.width) + static_cast<size_t>(x)];
+      const int b =
+          binOf[static_cast<size_t>(y) * static_cast<size_t>(fold.width) + static_cast<size_t>(x)];
       sorted[static_cast<size_t>(fill[static_cast<size_t>(b)]++)] = row[x];
     }
   }
@@ -75,7 +76,8 @@ cv::Mat periodicAverage(const cv::Mat& values, const Lattice& lattice, cv::Rect 
   for (int y = 0; y < values.rows; ++y) {
     grid.row(0, y, values.cols, rowBins.data());
     float* row = out.ptr<float>(y);
-    for (int x = 0; x < values.cols; ++x) row[x] = median[static_cast<size_t>(rowBins[static_cast<size_t>(x)])];
+    for (int x = 0; x < values.cols; ++x)
+      row[x] = median[static_cast<size_t>(rowBins[static_cast<size_t>(x)])];
   }
   return out;
 }
@@ -110,6 +112,36 @@ cv::Mat structureMap(const cv::Mat& frame, const Lattice& lattice) {
   // A little slack around the edges: drift moves them by a fraction of a pixel.
   cv::GaussianBlur(weights, weights, cv::Size(), 1.0);
   return weights;
+}
+
+cv::Mat persistence(const std::vector<cv::Mat>& features) {
+  CV_Assert(!features.empty());
+  const cv::Size size = features.front().size();
+  const size_t n = features.size();
+  cv::Mat out(size, CV_32F, cv::Scalar(1));
+  if (n < 3) return out;
+  const size_t low = n / 5;  // the 20% quantile
+  std::vector<float> v(n);
+  for (int y = 0; y < size.height; ++y) {
+    float* o = out.ptr<float>(y);
+    for (int x = 0; x < size.width; ++x) {
+      for (size_t k = 0; k < n; ++k) v[k] = features[k].at<float>(y, x);
+      std::nth_element(v.begin(), v.begin() + static_cast<long>(n / 2), v.end());
+      const float median = v[n / 2];
+      std::nth_element(v.begin(), v.begin() + static_cast<long>(low),
+                       v.begin() + static_cast<long>(n / 2));
+      o[x] = median > 0 ? std::clamp(v[low] / median, 0.0f, 1.0f) : 0.0f;
+    }
+  }
+  // Full weight only where the low quantile keeps 90% of the median, none
+  // below half; and none within the reach of the features' smoothing (2 px)
+  // of anything transient, whose blurred rim still touches its neighbours.
+  constexpr double kNone = 0.5, kFull = 0.9;
+  out = (out - kNone) / (kFull - kNone);
+  cv::threshold(out, out, 1.0, 1.0, cv::THRESH_TRUNC);
+  cv::threshold(out, out, 0.0, 0.0, cv::THRESH_TOZERO);
+  cv::erode(out, out, cv::getStructuringElement(cv::MORPH_ELLIPSE, cv::Size(5, 5)));
+  return out;
 }
 
 }  // namespace budledger::traps

@@ -32,7 +32,8 @@ void translate(const cv::Mat& frame, cv::Point2d shift, cv::Mat& out) {
     const T* b = frame.ptr<T>(std::clamp(y + iy + 1, 0, h - 1));
     auto* o = out.ptr<std::uint16_t>(y);
     auto px = [&](int x, int c0, int c1) {
-      o[x] = static_cast<std::uint16_t>(w00 * a[c0] + w01 * a[c1] + w10 * b[c0] + w11 * b[c1] + 0.5f);
+      o[x] =
+          static_cast<std::uint16_t>(w00 * a[c0] + w01 * a[c1] + w10 * b[c0] + w11 * b[c1] + 0.5f);
     };
     for (int x = 0; x < xs; ++x) px(x, col0[static_cast<size_t>(x)], col1[static_cast<size_t>(x)]);
     for (int x = xs; x < xe; ++x) px(x, x + ix, x + ix + 1);
@@ -100,9 +101,10 @@ std::vector<int> spreadFrames(int frames, int count) {
   std::vector<int> out;
   count = std::clamp(count, 1, std::max(frames, 1));
   for (int k = 0; k < count; ++k) {
-    const int f = count == 1 ? 0
-                             : static_cast<int>(std::lround(static_cast<double>(k) * (frames - 1) /
-                                                            (count - 1)));
+    const int f =
+        count == 1
+            ? 0
+            : static_cast<int>(std::lround(static_cast<double>(k) * (frames - 1) / (count - 1)));
     if (out.empty() || out.back() != f) out.push_back(f);
   }
   return out;

@@ -107,7 +107,11 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
       const float m = medianOf(v);
       for (size_t k = 0; k < nSites; ++k) v[k] = std::abs(patches[k].at<float>(y, x) - m);
       T.at<float>(y, x) = m;
-      spread.at<float>(y, x) = medianOf(v);
+      // Not the median deviation: posts are in every trap, cells are not, so
+      // a pixel where even one site in ten disagrees is not the chip's.
+      const auto q = v.begin() + static_cast<long>(0.9 * static_cast<double>(nSites - 1));
+      std::nth_element(v.begin(), q, v.end());
+      spread.at<float>(y, x) = *q;
     }
 
   // 2. Structure: far from the medium's level, and alike in every trap.
@@ -128,6 +132,24 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
   S &= consistent;
   cv::morphologyEx(S, S, cv::MORPH_OPEN,
                    cv::getStructuringElement(cv::MORPH_ELLIPSE, cv::Size(3, 3)));
+  // A post shows as a dark rim, a bright core and a halo: close the small
+  // seams between them (far narrower than any gap between posts) and fill
+  // small enclosed holes, so that each post is one part.
+  cv::morphologyEx(S, S, cv::MORPH_CLOSE,
+                   cv::getStructuringElement(cv::MORPH_ELLIPSE, cv::Size(5, 5)));
+  {
+    cv::Mat holes = ~S, holeLabels, holeStats, holeCentroids;
+    const int nh = cv::connectedComponentsWithStats(holes, holeLabels, holeStats, holeCentroids, 4);
+    const double small = 0.02 * std::abs(lattice.a.x * lattice.b.y - lattice.a.y * lattice.b.x);
+    for (int l = 1; l < nh; ++l) {
+      const int x = holeStats.at<int>(l, cv::CC_STAT_LEFT),
+                y = holeStats.at<int>(l, cv::CC_STAT_TOP);
+      const bool touches = x == 0 || y == 0 ||
+                           x + holeStats.at<int>(l, cv::CC_STAT_WIDTH) >= boxW ||
+                           y + holeStats.at<int>(l, cv::CC_STAT_HEIGHT) >= boxH;
+      if (!touches && holeStats.at<int>(l, cv::CC_STAT_AREA) < small) S.setTo(255, holeLabels == l);
+    }
+  }
 
   cv::Mat labels, stats, centroids;
   const int n = cv::connectedComponentsWithStats(S, labels, stats, centroids, 8, CV_32S);
@@ -161,18 +183,31 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
     ++classes;
   }
   const cv::Point2d boxCentre((boxW - 1) / 2.0, (boxH - 1) / 2.0);
+  // The seed: of the class with the largest parts, the member nearest the
+  // box's centre, so that its trap's other parts (within half a cell) lie
+  // whole inside the box, which reaches a cell beyond it.
+  // Only a class that repeats in the box is part of the motif; a one-off
+  // (two posts fused by a cell in one trap, debris) is not.
+  std::vector<int> largestOfClass(static_cast<size_t>(classes), 0),
+      members(static_cast<size_t>(classes), 0);
+  for (const auto& p : parts) {
+    largestOfClass[static_cast<size_t>(p.cls)] =
+        std::max(largestOfClass[static_cast<size_t>(p.cls)], p.area);
+    ++members[static_cast<size_t>(p.cls)];
+  }
+  const bool anyRepeat = std::any_of(members.begin(), members.end(), [](int m) { return m >= 2; });
   int seed = -1;
   for (size_t i = 0; i < parts.size(); ++i) {
-    if (parts[i].border) continue;
+    if (parts[i].border || (anyRepeat && members[static_cast<size_t>(parts[i].cls)] < 2)) continue;
     if (seed < 0) {
       seed = static_cast<int>(i);
       continue;
     }
     const Part& s = parts[static_cast<size_t>(seed)];
-    const bool bigger = parts[i].area > 1.1 * s.area;
-    const bool similar = parts[i].area > 0.9 * s.area;
-    if (bigger || (similar && cv::norm(parts[i].centroid - boxCentre) <
-                                  cv::norm(s.centroid - boxCentre)))
+    const int mine = largestOfClass[static_cast<size_t>(parts[i].cls)];
+    const int theirs = largestOfClass[static_cast<size_t>(s.cls)];
+    if (mine > 1.1 * theirs || (mine >= theirs / 1.1 && cv::norm(parts[i].centroid - boxCentre) <
+                                                            cv::norm(s.centroid - boxCentre)))
       seed = static_cast<int>(i);
   }
   if (seed < 0) {
@@ -180,28 +215,43 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
     return result;
   }
   // 3. One part of each class, as close together as possible: one trap.
+  // Closeness is the gap between the parts' pixels, not between their
+  // centres: the two halves of a cup face each other across the narrow
+  // outlet, while neighbouring cups stand back to back farther apart even
+  // when their centres are as close.
   std::vector<int> group{seed};
-  cv::Point2d gc = parts[static_cast<size_t>(seed)].centroid;
-  double garea = parts[static_cast<size_t>(seed)].area;
-  std::vector<int> order(static_cast<size_t>(classes));
-  std::iota(order.begin(), order.end(), 0);
-  std::vector<int> classArea(static_cast<size_t>(classes), 0);
-  for (const auto& p : parts) classArea[static_cast<size_t>(p.cls)] = std::max(classArea[static_cast<size_t>(p.cls)], p.area);
-  std::sort(order.begin(), order.end(), [&](int a, int b) { return classArea[static_cast<size_t>(a)] > classArea[static_cast<size_t>(b)]; });
-  for (int c : order) {
-    if (c == parts[static_cast<size_t>(seed)].cls) continue;
+  cv::Mat groupMask = labels == parts[static_cast<size_t>(seed)].label;
+  std::vector<bool> classTaken(static_cast<size_t>(classes), false);
+  classTaken[static_cast<size_t>(parts[static_cast<size_t>(seed)].cls)] = true;
+  // Grow the trap part by part, nearest gap first, one part per class (a
+  // second part of a class would belong to a neighbouring trap).
+  for (;;) {
+    cv::Mat toGroup;  // distance of every pixel to the group's pixels
+    cv::distanceTransform(~groupMask, toGroup, cv::DIST_L2, cv::DIST_MASK_PRECISE);
     int best = -1;
-    for (size_t i = 0; i < parts.size(); ++i)
-      if (parts[i].cls == c && !parts[i].border &&
-          (best < 0 || cv::norm(parts[i].centroid - gc) <
-                           cv::norm(parts[static_cast<size_t>(best)].centroid - gc)))
+    double bestGap = 1e18;
+    for (size_t i = 0; i < parts.size(); ++i) {
+      if (parts[i].border || classTaken[static_cast<size_t>(parts[i].cls)] ||
+          (anyRepeat && members[static_cast<size_t>(parts[i].cls)] < 2))
+        continue;
+      double gap = 0;
+      cv::minMaxLoc(toGroup, &gap, nullptr, nullptr, nullptr, labels == parts[i].label);
+      if (gap < bestGap) {
+        bestGap = gap;
         best = static_cast<int>(i);
-    if (best < 0 || cv::norm(parts[static_cast<size_t>(best)].centroid - gc) > lattice.minPitch())
+      }
+    }
+    if (best < 0 || bestGap > 0.5 * lattice.minPitch()) break;
+    // A trap fits in its cell: rows are |b.y| apart, traps in a row |a.x|.
+    const cv::Rect grown =
+        cv::boundingRect(groupMask | (labels == parts[static_cast<size_t>(best)].label));
+    if (grown.width >= std::abs(lattice.a.x) || grown.height >= std::abs(lattice.b.y)) {
+      classTaken[static_cast<size_t>(parts[static_cast<size_t>(best)].cls)] = true;  // not this one
       continue;
+    }
     group.push_back(best);
-    const Part& p = parts[static_cast<size_t>(best)];
-    gc = (gc * garea + p.centroid * p.area) / (garea + p.area);
-    garea += p.area;
+    classTaken[static_cast<size_t>(parts[static_cast<size_t>(best)].cls)] = true;
+    groupMask |= labels == parts[static_cast<size_t>(best)].label;
   }
   cv::Mat M(boxH, boxW, CV_8U, cv::Scalar(0));
   for (int g : group) M.setTo(255, labels == parts[static_cast<size_t>(g)].label);
@@ -243,6 +293,9 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
                     cv::Point2f(static_cast<float>(tplBox.x + (tplBox.width - 1) / 2.0),
                                 static_cast<float>(tplBox.y + (tplBox.height - 1) / 2.0)),
                     tpl, CV_32F);
+  cv::Scalar tplMean, tplSd;
+  cv::meanStdDev(tpl, tplMean, tplSd);
+  const double tplContrast = tplSd[0];
   // Template centre relative to the cup centre.
   const cv::Point2d tplOffset(tplBox.x + (tplBox.width - 1) / 2.0 - cup.x,
                               tplBox.y + (tplBox.height - 1) / 2.0 - cup.y);
@@ -280,6 +333,11 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
       double best = 0;
       cv::Point at;
       cv::minMaxLoc(score, nullptr, &best, nullptr, &at);
+      // A featureless site (a wall, an empty part of the chip) can correlate
+      // "perfectly" by rounding; it must show the template's contrast.
+      cv::Scalar mean, sd;
+      cv::meanStdDev(area(cv::Rect(at, tpl.size())), mean, sd);
+      if (sd[0] < 0.3 * tplContrast) best = 0;
       auto vertex = [](double m, double c0, double p) {
         const double den = m - 2 * c0 + p;
         return den < 0 ? std::clamp(0.5 * (m - p) / den, -0.5, 0.5) : 0.0;
@@ -299,11 +357,15 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
       const cv::Rect inside = region & frame;
       if (inside.width < 4 || inside.height < 4) continue;
       const cv::Mat a = P(inside);
-      const cv::Mat b = tpl(cv::Rect(inside.x - region.x, inside.y - region.y, inside.width,
-                                     inside.height));
+      const cv::Mat b =
+          tpl(cv::Rect(inside.x - region.x, inside.y - region.y, inside.width, inside.height));
       cv::Mat score;
       cv::matchTemplate(a, b, score, cv::TM_CCOEFF_NORMED);
       site.score = score.at<float>(0, 0);
+      cv::Scalar mean, sd, tmean, tsd;
+      cv::meanStdDev(a, mean, sd);
+      cv::meanStdDev(b, tmean, tsd);
+      if (sd[0] < 0.3 * tsd[0]) site.score = 0;
       site.matched = c;
     }
     sites.push_back(site);
@@ -318,8 +380,7 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
   const double typical = medianOf(wholeScores);
   const double threshold = std::max(options.minMatch, options.presenceFraction * typical);
   std::vector<bool> use(sites.size());
-  for (size_t k = 0; k < sites.size(); ++k)
-    use[k] = sites[k].whole && sites[k].score >= threshold;
+  for (size_t k = 0; k < sites.size(); ++k) use[k] = sites[k].whole && sites[k].score >= threshold;
   Lattice fitted = traps;
   for (int round = 0; round < 3; ++round) {
     std::vector<cv::Point2d> pts2;
@@ -352,8 +413,7 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
     }
     Trap t;
     t.centre = fitted.at(st.ij.x, st.ij.y);
-    if (t.centre.x < 0 || t.centre.y < 0 || t.centre.x >= size.width ||
-        t.centre.y >= size.height)
+    if (t.centre.x < 0 || t.centre.y < 0 || t.centre.x >= size.width || t.centre.y >= size.height)
       continue;
     t.match = st.score;
     layout.traps.push_back(t);
@@ -362,10 +422,11 @@ TrapFinding findTraps(const cv::Mat& projectionIn, const Lattice& lattice,
   numberTraps(layout.traps, layout.lattice);
   layout.crop = cropBox(layout.support, layout.lattice);
   // The template image over the crop box, for thumbnails and measurement.
-  cv::getRectSubPix(T, layout.crop.size(),
-                    cv::Point2f(static_cast<float>(cup.x + layout.crop.x + (layout.crop.width - 1) / 2.0),
-                                static_cast<float>(cup.y + layout.crop.y + (layout.crop.height - 1) / 2.0)),
-                    layout.templ, CV_32F);
+  cv::getRectSubPix(
+      T, layout.crop.size(),
+      cv::Point2f(static_cast<float>(cup.x + layout.crop.x + (layout.crop.width - 1) / 2.0),
+                  static_cast<float>(cup.y + layout.crop.y + (layout.crop.height - 1) / 2.0)),
+      layout.templ, CV_32F);
   if (layout.traps.empty()) result.note = "no lattice site matched the trap template";
   return result;
 }

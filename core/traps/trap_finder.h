@@ -28,10 +28,11 @@
 namespace budledger::traps {
 
 struct TrapFinderOptions {
-  int searchPx = 3;               // template-matching search around each predicted site
-  double presenceFraction = 0.5;  // a site is a trap if it matches at least this share of the median
-  double minMatch = 0.3;          // ... and at least this well in absolute terms
-  double minVisible = 0.4;        // share of a cut trap's support that must be in the frame
+  int searchPx = 3;  // template-matching search around each predicted site
+  double presenceFraction =
+      0.5;                  // a site is a trap if it matches at least this share of the median
+  double minMatch = 0.3;    // ... and at least this well in absolute terms
+  double minVisible = 0.4;  // share of a cut trap's support that must be in the frame
 };
 
 struct TrapFinding {

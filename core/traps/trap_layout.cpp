@@ -77,8 +77,8 @@ cv::Rect cropBox(const cv::Rect2d& support, const std::optional<Lattice>& lattic
     h = std::max(h, std::abs(lattice->b.y));
   }
   const int iw = static_cast<int>(std::ceil(w)) | 1, ih = static_cast<int>(std::ceil(h)) | 1;
-  return {static_cast<int>(std::lround(mid.x)) - iw / 2, static_cast<int>(std::lround(mid.y)) - ih / 2,
-          iw, ih};
+  return {static_cast<int>(std::lround(mid.x)) - iw / 2,
+          static_cast<int>(std::lround(mid.y)) - ih / 2, iw, ih};
 }
 
 }  // namespace budledger::traps

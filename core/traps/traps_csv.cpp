@@ -99,12 +99,13 @@ std::vector<SuppliedTrap> readTrapsCsv(const std::filesystem::path& file) {
     if (!x || !y) bad("x and y must be numbers");
     t.centre = {*x, *y};
     if (const auto* p = cell("position")) t.position = *p;
-    for (const auto& [key, target] : {std::pair{"trap_id", &t.id}, std::pair{"row", &t.row},
-                                      std::pair{"col", &t.col}}) {
+    for (const auto& [key, target] :
+         {std::pair{"trap_id", &t.id}, std::pair{"row", &t.row}, std::pair{"col", &t.col}}) {
       const auto* c = cell(key);
       if (!c || c->empty()) continue;
       const auto v = parseNumber(*c);
-      if (!v || *v < 0 || *v != std::floor(*v)) bad(fmt::format("{} must be a whole number >= 0", key));
+      if (!v || *v < 0 || *v != std::floor(*v))
+        bad(fmt::format("{} must be a whole number >= 0", key));
       *target = static_cast<int>(*v);
     }
     out.push_back(t);
@@ -123,9 +124,8 @@ TrapLayout layoutFromSupplied(const std::vector<SuppliedTrap>& rows, const std::
                      fmt::format("the trap layout has no rows for position '{}'", position));
   TrapLayout layout;
   layout.source = TrapLayout::Source::Supplied;
-  const bool numbered = std::all_of(mine.begin(), mine.end(), [](const SuppliedTrap* t) {
-    return t->id && t->row && t->col;
-  });
+  const bool numbered = std::all_of(
+      mine.begin(), mine.end(), [](const SuppliedTrap* t) { return t->id && t->row && t->col; });
   std::set<int> ids;
   for (const auto* r : mine) {
     Trap t;
@@ -133,8 +133,8 @@ TrapLayout layoutFromSupplied(const std::vector<SuppliedTrap>& rows, const std::
     if (numbered) {
       if (!ids.insert(*r->id).second)
         throw InputError(file.string(), std::nullopt,
-                         fmt::format("line {}: trap_id {} appears twice for position '{}'",
-                                     r->line, *r->id, position));
+                         fmt::format("line {}: trap_id {} appears twice for position '{}'", r->line,
+                                     *r->id, position));
       t.id = *r->id;
       t.row = *r->row;
       t.col = *r->col;

@@ -28,7 +28,9 @@ std::vector<std::vector<double>> readCsv(const std::filesystem::path& file) {
 std::vector<TruthTrap> readTruthTraps(const std::filesystem::path& file) {
   std::vector<TruthTrap> out;
   for (const auto& r : readCsv(file))
-    out.push_back({static_cast<int>(r.at(0)), static_cast<int>(r.at(1)), static_cast<int>(r.at(2)),
+    out.push_back({static_cast<int>(r.at(0)),
+                   static_cast<int>(r.at(1)),
+                   static_cast<int>(r.at(2)),
                    {r.at(3), r.at(4)}});
   return out;
 }
@@ -41,7 +43,8 @@ std::vector<cv::Point2d> readTruthDrift(const std::filesystem::path& file) {
 
 LayoutScore scoreLayout(const traps::TrapLayout& layout, const registration::DriftTrack& drift,
                         const std::vector<TruthTrap>& truth,
-                        const std::vector<cv::Point2d>& truthDrift, double tolerance) {
+                        const std::vector<cv::Point2d>& truthDrift, double tolerance,
+                        double trusted) {
   LayoutScore s;
   s.truth = static_cast<int>(truth.size());
   s.found = static_cast<int>(layout.traps.size());
@@ -69,7 +72,8 @@ LayoutScore scoreLayout(const traps::TrapLayout& layout, const registration::Dri
   s.precision = s.found ? static_cast<double>(s.matched) / s.found : 0;
   if (s.matched == 0) return s;
   for (size_t i = 0; i < ofOurs.size(); ++i)
-    if (ofOurs[i] >= 0) s.offset += layout.traps[i].centre - truth[static_cast<size_t>(ofOurs[i])].centre;
+    if (ofOurs[i] >= 0)
+      s.offset += layout.traps[i].centre - truth[static_cast<size_t>(ofOurs[i])].centre;
   s.offset *= 1.0 / s.matched;
   int lastTruthId = -1;
   for (size_t i = 0; i < ofOurs.size(); ++i) {
@@ -82,7 +86,9 @@ LayoutScore scoreLayout(const traps::TrapLayout& layout, const registration::Dri
     for (size_t f = 0; f < drift.size() && f < truthDrift.size(); ++f) {
       const cv::Point2d ours = c + cv::Point2d(drift[f].dx, drift[f].dy);
       const cv::Point2d theirs = t.centre + truthDrift[f];
-      s.maxTrackError = std::max(s.maxTrackError, cv::norm(ours - theirs));
+      const double e = cv::norm(ours - theirs);
+      s.maxTrackErrorAll = std::max(s.maxTrackErrorAll, e);
+      if (drift[f].confidence >= trusted) s.maxTrackError = std::max(s.maxTrackError, e);
     }
   }
   double sum = 0;

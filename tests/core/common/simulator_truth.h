@@ -28,15 +28,19 @@ struct LayoutScore {
   double recall = 0, precision = 0;
   cv::Point2d offset;           // mean (ours - truth) over matched traps
   double maxOffsetSpread = 0;   // max |ours - truth - offset| at frame 0
-  double maxTrackError = 0;     // max over traps and frames of the tracked position's error
+  double maxTrackError = 0;     // max over traps and trusted frames of the tracked position's error
+  double maxTrackErrorAll = 0;  // the same over every frame, trusted or not
   double maxDriftError = 0;     // max |drift - true drift| over frames
   double rmsDriftError = 0;
-  bool idsRowMajor = true;      // matched traps keep the truth's row-major order
+  bool idsRowMajor = true;  // matched traps keep the truth's row-major order
 };
 
-// `tolerance`: largest centre distance (px) that counts as the same trap.
+// `tolerance`: largest centre distance (px) that counts as the same trap;
+// frames whose drift confidence is below `trusted` count only in
+// maxTrackErrorAll (the engine is told not to rely on them).
 LayoutScore scoreLayout(const traps::TrapLayout& layout, const registration::DriftTrack& drift,
                         const std::vector<TruthTrap>& truth,
-                        const std::vector<cv::Point2d>& truthDrift, double tolerance);
+                        const std::vector<cv::Point2d>& truthDrift, double tolerance,
+                        double trusted = 0.5);
 
 }  // namespace budledger::testing

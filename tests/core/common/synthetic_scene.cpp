@@ -8,7 +8,9 @@ namespace budledger::testing {
 
 std::vector<Capsule> SceneOptions::defaultCup() {
   // Two slanted walls and a floor piece with a narrow outlet: a cup open upstream (up).
-  return {{{-11, -10}, {-7, 7}, 3.0}, {{11, -10}, {7, 7}, 3.0}, {{-7, 11}, {-3, 12}, 2.5},
+  return {{{-11, -10}, {-7, 7}, 3.0},
+          {{11, -10}, {7, 7}, 3.0},
+          {{-7, 11}, {-3, 12}, 2.5},
           {{7, 11}, {3, 12}, 2.5}};
 }
 
@@ -19,7 +21,8 @@ std::vector<Capsule> SceneOptions::roundPostCup() {
 SyntheticScene::SyntheticScene(const SceneOptions& options) : o_(options) {
   // Every lattice point whose trap could touch the frame.
   const double reach = std::hypot(o_.size.width, o_.size.height) * 2;
-  const int n = static_cast<int>(reach / std::min(cv::norm(o_.latticeA), cv::norm(o_.latticeB))) + 2;
+  const int n =
+      static_cast<int>(reach / std::min(cv::norm(o_.latticeA), cv::norm(o_.latticeB))) + 2;
   for (int j = -n; j <= n; ++j)
     for (int i = -n; i <= n; ++i) {
       const cv::Point2d c = o_.origin + i * o_.latticeA + j * o_.latticeB;
@@ -72,8 +75,8 @@ cv::Mat SyntheticScene::render(const FrameEffects& fx) const {
     auto* row = img.ptr<float>(y);
     for (int x = 0; x < w; ++x) {
       const double u = (x - w / 2.0) / w, v = (y - h / 2.0) / h;
-      row[x] = static_cast<float>(o_.background *
-                                  (1 + o_.illuminationTilt * (u + 0.5 * v) - 0.2 * (u * u + v * v)));
+      row[x] = static_cast<float>(
+          o_.background * (1 + o_.illuminationTilt * (u + 0.5 * v) - 0.2 * (u * u + v * v)));
     }
   }
   // Posts: a dark body with a soft edge and a faint bright halo.
@@ -124,6 +127,19 @@ cv::Mat SyntheticScene::render(const FrameEffects& fx) const {
         const double rim = std::exp(-d * d / 1.5);
         const double interior = d < -1 ? 0.06 : 0.0;
         row[x] += static_cast<float>(o_.background * (interior - 0.35 * rim));
+      }
+    }
+  }
+  // Dust on the camera: soft dark spots at fixed image positions.
+  cv::RNG dust(o_.seed * 31 + 5);
+  for (int k = 0; k < o_.dustSpots; ++k) {
+    const cv::Point2d c(dust.uniform(0.0, 1.0 * w), dust.uniform(0.0, 1.0 * h));
+    const double r = dust.uniform(4.0, 14.0), depth = dust.uniform(0.1, 0.3);
+    for (int y = std::max(0, int(c.y - 2 * r)); y < std::min(h, int(c.y + 2 * r)); ++y) {
+      auto* row = img.ptr<float>(y);
+      for (int x = std::max(0, int(c.x - 2 * r)); x < std::min(w, int(c.x + 2 * r)); ++x) {
+        const double d2 = ((x - c.x) * (x - c.x) + (y - c.y) * (y - c.y)) / (r * r);
+        row[x] *= static_cast<float>(1 - depth * std::exp(-d2));
       }
     }
   }

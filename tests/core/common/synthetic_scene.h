@@ -19,17 +19,18 @@ struct Capsule {
 
 struct SceneOptions {
   cv::Size size{640, 480};
-  cv::Point2d latticeA{64, 0};   // along a row
-  cv::Point2d latticeB{0, 72};   // to the next row (x != 0: staggered rows)
-  cv::Point2d origin{40, 44};    // cup centre of one trap, frame-0 pixels
+  cv::Point2d latticeA{64, 0};  // along a row
+  cv::Point2d latticeB{0, 72};  // to the next row (x != 0: staggered rows)
+  cv::Point2d origin{40, 44};   // cup centre of one trap, frame-0 pixels
   std::vector<Capsule> trap = defaultCup();
-  double background = 2400;      // grey level of the medium
-  double postDepth = 1300;       // how much darker the posts are
-  double edgeSoftness = 1.1;     // px
+  double background = 2400;        // grey level of the medium
+  double postDepth = 1300;         // how much darker the posts are
+  double edgeSoftness = 1.1;       // px
   double illuminationTilt = 0.15;  // relative brightness change across the frame
   double noiseSigma = 25;
-  int cellsInTraps = 20;         // cells seated in cups (follow the stage)
-  int freeCells = 6;             // cells drifting through (do not follow the stage)
+  int cellsInTraps = 20;  // cells seated in cups (follow the stage)
+  int freeCells = 6;      // cells drifting through (do not follow the stage)
+  int dustSpots = 0;      // dark spots fixed to the camera (do not follow the stage)
   double cellRadius = 8;
   int bits = 16;
   std::uint64_t seed = 1;
@@ -50,6 +51,8 @@ class SyntheticScene {
   const SceneOptions& options() const { return o_; }
   // Cup centres of every trap whose centre lies inside the frame at frame 0, row-major.
   std::vector<cv::Point2d> trapCentres() const;
+  // Every trap centre near the frame, inside it or not.
+  const std::vector<cv::Point2d>& allTrapCentres() const { return allCentres_; }
   cv::Mat render(const FrameEffects& effects) const;  // CV_16UC1 or CV_8UC1
 
  private:

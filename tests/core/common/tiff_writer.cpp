@@ -43,8 +43,8 @@ void writeTiffStack(const std::filesystem::path& path, const std::vector<cv::Mat
                         f.ptr<unsigned char>(y + r) + static_cast<size_t>(x) * (bits / 8),
                         static_cast<size_t>(cols) * static_cast<size_t>(bits / 8));
           }
-          if (TIFFWriteTile(tif, tile.data(), static_cast<uint32_t>(x), static_cast<uint32_t>(y),
-                            0, 0) < 0)
+          if (TIFFWriteTile(tif, tile.data(), static_cast<uint32_t>(x), static_cast<uint32_t>(y), 0,
+                            0) < 0)
             throw std::runtime_error("cannot write tile");
         }
     } else {
@@ -63,8 +63,8 @@ void writeTiffStack(const std::filesystem::path& path, const std::vector<cv::Mat
   TIFFClose(tif);
 }
 
-std::string omeXml(int width, int height, int frames, int bits, double intervalMin,
-                   double pixelUm, const std::vector<std::string>& channels) {
+std::string omeXml(int width, int height, int frames, int bits, double intervalMin, double pixelUm,
+                   const std::vector<std::string>& channels) {
   std::string ch;
   for (size_t i = 0; i < channels.size(); ++i)
     ch += fmt::format(R"(<Channel ID="Channel:0:{}" Name="{}" SamplesPerPixel="1"/>)", i,

@@ -9,9 +9,9 @@
 
 namespace budledger::io {
 namespace {
-using testsupport::sceneFrames;
 using budledger::testing::TiffWriteOptions;
 using budledger::testing::writeTiffStack;
+using testsupport::sceneFrames;
 
 class BadInput : public testsupport::ScratchDir {
  protected:
@@ -34,7 +34,8 @@ class BadInput : public testsupport::ScratchDir {
     EXPECT_NE(std::string(e.what()).find(part), std::string::npos) << e.what();
     EXPECT_EQ(std::string(e.what()).find('\n'), std::string::npos) << "one line: " << e.what();
   }
-  static void writeRaw(const std::filesystem::path& path, int spp, int bits, int format, int photometric) {
+  static void writeRaw(const std::filesystem::path& path, int spp, int bits, int format,
+                       int photometric) {
     TIFF* tif = TIFFOpen(path.c_str(), "w");
     const int w = 16, h = 8;
     TIFFSetField(tif, TIFFTAG_IMAGEWIDTH, static_cast<uint32_t>(w));
@@ -108,7 +109,8 @@ TEST_F(BadInput, MixedFrameSizes) {
   frames[2] = cv::Mat(100, 120, CV_16U, cv::Scalar(5));
   const auto path = file("mixed.tif");
   writeTiffStack(path, frames);
-  expectMessage(path, "mixed frame sizes: this page is 120x100 16-bit but page 0 is 200x150 16-bit", 2);
+  expectMessage(path, "mixed frame sizes: this page is 120x100 16-bit but page 0 is 200x150 16-bit",
+                2);
 }
 
 TEST_F(BadInput, RgbFloatSignedAndOddDepthsAreRefused) {

@@ -6,9 +6,9 @@
 
 namespace budledger::io {
 namespace {
+using budledger::testing::writeTiffStack;
 using testsupport::identical;
 using testsupport::sceneFrames;
-using budledger::testing::writeTiffStack;
 
 class Folder : public testsupport::ScratchDir {
  protected:
@@ -20,7 +20,8 @@ TEST_F(Folder, PatternGivesPositionsTimesAndChannels) {
   for (int t = 0; t < 4; ++t)
     for (const char* pos : {"A1", "B2"}) {
       write(fmt::format("{}_t{}_BF.tif", pos, t + 1), frames[static_cast<size_t>(t)]);
-      write(fmt::format("{}_t{}_GFP.tif", pos, t + 1), cv::Mat(frames[0].size(), CV_16U, cv::Scalar(7)));
+      write(fmt::format("{}_t{}_GFP.tif", pos, t + 1),
+            cv::Mat(frames[0].size(), CV_16U, cv::Scalar(7)));
     }
   write("notes_t1_x.txt.tif.bak", frames[0]);  // not a .tif: ignored
   OpenOptions bf;

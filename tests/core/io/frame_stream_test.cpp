@@ -1,6 +1,6 @@
 // The background reader: order, errors, early stop.
-#include <fstream>
 #include <tiffio.h>
+#include <fstream>
 
 #include "core/base/error.h"
 #include "core/io/frame_source.h"
@@ -9,9 +9,9 @@
 
 namespace budledger::io {
 namespace {
+using budledger::testing::writeTiffStack;
 using testsupport::identical;
 using testsupport::sceneFrames;
-using budledger::testing::writeTiffStack;
 
 class Stream : public testsupport::ScratchDir {};
 

@@ -8,11 +8,11 @@
 
 namespace budledger::io {
 namespace {
-using testsupport::identical;
-using testsupport::sceneFrames;
 using budledger::testing::omeXml;
 using budledger::testing::TiffWriteOptions;
 using budledger::testing::writeTiffStack;
+using testsupport::identical;
+using testsupport::sceneFrames;
 
 TEST(OmeXml, ReadsDimensionsIntervalPixelSizeAndChannels) {
   const auto md = parseImageDescription(omeXml(512, 256, 240, 16, 10.0, 0.25, {"BF", "GFP"}));
@@ -59,8 +59,9 @@ TEST(OmeXml, IntervalFromPlaneDeltaTWhenNoTimeIncrement) {
 }
 
 TEST(ImageDescription, ImageJHyperstackAndPlainText) {
-  const auto ij = parseImageDescription("ImageJ=1.53t\nimages=20\nchannels=2\nframes=10\n"
-                                        "finterval=300\nunit=micron\n");
+  const auto ij = parseImageDescription(
+      "ImageJ=1.53t\nimages=20\nchannels=2\nframes=10\n"
+      "finterval=300\nunit=micron\n");
   EXPECT_EQ(ij.kind, StackMetadata::Kind::ImageJ);
   EXPECT_EQ(ij.sizeT, 10);
   EXPECT_EQ(ij.sizeC, 2);

@@ -10,10 +10,10 @@
 
 namespace budledger::io {
 namespace {
-using testsupport::identical;
-using testsupport::sceneFrames;
 using budledger::testing::TiffWriteOptions;
 using budledger::testing::writeTiffStack;
+using testsupport::identical;
+using testsupport::sceneFrames;
 
 class TiffRead : public testsupport::ScratchDir {};
 
@@ -69,15 +69,20 @@ TEST_F(TiffRead, VariantsMadeByTiffcpArePixelIdentical) {
     const auto frames = sceneFrames(4, bits, {203, 157});  // sizes that are no tile multiple
     const auto original = file(fmt::format("orig{}.tif", bits));
     writeTiffStack(original, frames);
-    const std::vector<std::pair<std::string, std::string>> variants{
-        {"lzw", "-c lzw"},          {"zip", "-c zip"},        {"packbits", "-c packbits"},
-        {"bigtiff", "-8"},          {"tiles", "-t"},          {"lzw-pred", "-c lzw:2"},
-        {"big-tiles-zip", "-8 -t -c zip"}, {"strips-3", "-r 3"},
+    const std::vector<std::pair<std::string, std::string> > variants{
+        {"lzw", "-c lzw"},
+        {"zip", "-c zip"},
+        {"packbits", "-c packbits"},
+        {"bigtiff", "-8"},
+        {"tiles", "-t"},
+        {"lzw-pred", "-c lzw:2"},
+        {"big-tiles-zip", "-8 -t -c zip"},
+        {"strips-3", "-r 3"},
     };
     for (const auto& [name, args] : variants) {
       const auto out = file(fmt::format("{}{}.tif", name, bits));
-      const std::string cmd = std::string(BUDLEDGER_TIFFCP) + " " + args + " " + original.string() +
-                              " " + out.string();
+      const std::string cmd =
+          std::string(BUDLEDGER_TIFFCP) + " " + args + " " + original.string() + " " + out.string();
       ASSERT_EQ(std::system(cmd.c_str()), 0) << cmd;
       expectSame(out, frames);
       TiffFile t(out);

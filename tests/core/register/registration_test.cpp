@@ -128,7 +128,8 @@ cv::Mat randomChip(cv::Size size, cv::Point2d shift, std::uint64_t seed, double 
   cv::RNG rng(seed);
   cv::Mat img(size, CV_32F, cv::Scalar(2400));
   for (int k = 0; k < 220; ++k) {
-    const cv::Point2d c(rng.uniform(-20.0, size.width + 20.0), rng.uniform(-20.0, size.height + 20.0));
+    const cv::Point2d c(rng.uniform(-20.0, size.width + 20.0),
+                        rng.uniform(-20.0, size.height + 20.0));
     const double r = rng.uniform(2.0, 7.0), depth = rng.uniform(400.0, 1300.0);
     const cv::Point2d p = c + shift;
     for (int y = std::max(0, int(p.y - r - 6)); y < std::min(size.height, int(p.y + r + 6)); ++y)
@@ -138,7 +139,8 @@ cv::Mat randomChip(cv::Size size, cv::Point2d shift, std::uint64_t seed, double 
       }
   }
   cv::Mat n(size, CV_32F);
-  cv::RNG(seed * 977 + static_cast<std::uint64_t>(shift.x * 1000)).fill(n, cv::RNG::NORMAL, 0, noise);
+  cv::RNG(seed * 977 + static_cast<std::uint64_t>(shift.x * 1000))
+      .fill(n, cv::RNG::NORMAL, 0, noise);
   img += n;
   cv::Mat out;
   img.convertTo(out, CV_16U);

@@ -5,7 +5,9 @@
 #include <filesystem>
 #include <fstream>
 
+#include "core/store/materialised.h"
 #include "core/store/schema.h"
+#include "core/store/verify.h"
 
 namespace budledger::store {
 namespace {
@@ -100,6 +102,43 @@ TEST_F(ProjectTest, MeasurementsRoundTrip) {
   EXPECT_EQ(back[0].occupancy, Occupancy::Budded);
   EXPECT_DOUBLE_EQ(back[0].pBudded, 0.8);
   EXPECT_EQ(back[0].cellCount, 2);
+}
+
+TEST_F(ProjectTest, AFileFromBeforeTheJournalGetsItsRunsJournaled) {
+  const auto path = file("old.budledger");
+  {
+    auto p = Project::create(path);
+    const int pos = p.addPosition({0, "pos01", "", 50, 10, 10});
+    p.replaceTraps(pos, {{pos, 0, 0, 0, 5, 5, false}});
+  }
+  {
+    // What a version-1 file looks like: no journal tables, a run and its
+    // proposals written straight into the version-1 tables.
+    Database raw(path, Database::Access::ReadWrite);
+    raw.exec(
+        "DROP TABLE journal; DROP TABLE current_events; DROP TABLE outcome_overrides; "
+        "DROP TABLE signoffs; DROP TABLE carry_over_review; "
+        "DELETE FROM meta WHERE key = 'journal_head'; PRAGMA user_version = 1; "
+        "INSERT INTO engine_runs(id, started_utc, engine_version, parameters_json, input_digest) "
+        "VALUES (1, '2026-01-01T00:00:00.000Z', 'old', '{}', ''); "
+        "INSERT INTO proposals(run_id, position_id, trap_id, frame, kind, confidence) VALUES "
+        "(1, 1, 0, 5, 'bud', 0.9), (1, 1, 0, 9, 'separation', 0.8);");
+  }
+  auto p = Project::open(path);
+  auto st = p.db().prepare("PRAGMA user_version");
+  ASSERT_TRUE(st.step());
+  EXPECT_EQ(st.integer(0), latestSchemaVersion());
+  EXPECT_EQ(currentEvents(p.db()).size(), 2u);
+  const auto report = verifyProject(p);
+  EXPECT_TRUE(report.ok()) << report.problems.front();
+  EXPECT_EQ(report.entries, 1);
+}
+
+TEST_F(ProjectTest, WritesAreRefusedWhenReadOnly) {
+  Project::create(file("a.budledger"));
+  auto p = Project::open(file("a.budledger"), Database::Access::ReadOnly);
+  EXPECT_THROW(p.setMeta("k", "v"), StoreError);
+  EXPECT_THROW(p.db().exec("INSERT INTO meta(key, value) VALUES ('k', 'v')"), StoreError);
 }
 
 }  // namespace
