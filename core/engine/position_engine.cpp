@@ -157,9 +157,11 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
     for (const auto& s : samples[i])
       noises.push_back(measure::estimateNoise(s, background.background(i), seg.smoothSigmaPx));
   const double noise = std::max(1e-9, median(noises));
+  // Every other sample is plenty for the outline sign and the seat (they pool all traps).
   measure::OutlineAreas areas;
   for (std::size_t i = 0; i < N; ++i)
-    for (const auto& s : samples[i]) areas += measure::outlineAreas(s, background.background(i), noise, seg);
+    for (std::size_t k = 0; k < samples[i].size(); k += 2)
+      areas += measure::outlineAreas(samples[i][k], background.background(i), noise, seg);
   seg.polarity = measure::choosePolarity(areas);
   const measure::CropGeometry geometry{in.cup.x, in.cup.y, in.pixelUm};
   // Registration is good to a fraction of a pixel; the posts' edges then leave residuals
@@ -182,9 +184,9 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   measure::SegmentParams searching = seg;
   searching.seatRadiusFactor = 1.5 * seg.seatRadiusFactor;
   for (std::size_t i = 0; i < N; ++i)
-    for (const auto& s : samples[i]) {
-      const auto r = measure::segmentCrop(s, background.background(i), noise, geometry, searching,
-                                          &noiseMaps[i]);
+    for (std::size_t k = 1; k < samples[i].size(); k += 2) {
+      const auto r = measure::segmentCrop(samples[i][k], background.background(i), noise, geometry,
+                                          searching, &noiseMaps[i]);
       if (r.mother < 0) continue;
       const auto& m = r.cells[static_cast<std::size_t>(r.mother)];
       motherAreas.push_back(m.areaPx);
@@ -209,8 +211,9 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
                      {"background_floor", background.noiseFloor()},
                      {"sample_frames", sampleFrames.size()}};
   if (background.quality() == measure::BackgroundModel::Quality::NoEmptyTrap)
-    out.note = "no trap looked empty in any sampled frame: backgrounds are the lattice median "
-               "of occupied traps, calls need review";
+    out.note =
+        "no trap looked empty in any sampled frame: backgrounds are the lattice median "
+        "of occupied traps, calls need review";
 
   timing["calibration_s"] = lap();
   // 3. Cells, features and occupancy in every crop; evidence for the temporal model.
@@ -235,8 +238,8 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       const auto ut = static_cast<std::size_t>(t);
       if (!informative[ut]) continue;
       const cv::Mat crop = measure::normaliseCrop(crops[i][ut]);
-      readings[i][ut] = measure::segmentCrop(crop, background.background(i), noise,
-                                             seatGeometry, segKeep, &noiseMaps[i]);
+      readings[i][ut] = measure::segmentCrop(crop, background.background(i), noise, seatGeometry,
+                                             segKeep, &noiseMaps[i]);
     }
     const auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
     int previous = -1;  // last informative frame
@@ -262,8 +265,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
           attached.push_back(a.cell);
       if (previous >= 0 && f.hasMother)
         e.departure = measure::departedArea(readings[i][static_cast<std::size_t>(previous)],
-                                            previousAttached, readings[i][ut],
-                                            0.5 * seg.threshold);
+                                            previousAttached, readings[i][ut], 0.5 * seg.threshold);
       previous = t;
       previousAttached = std::move(attached);
     }
@@ -290,7 +292,8 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       {"occupancy_given_state", calls.emission.occupancy},
       {"bud_ratio_by_age", calls.emission.budRatioMean},
       {"bud_ratio_sigma", calls.emission.budRatioSigma},
-      {"bud_ratio_unbudded", {calls.emission.budRatioUnbuddedMean, calls.emission.budRatioUnbuddedSigma}},
+      {"bud_ratio_unbudded",
+       {calls.emission.budRatioUnbuddedMean, calls.emission.budRatioUnbuddedSigma}},
       {"bud_ratio_dead", {calls.emission.budRatioDeadMean, calls.emission.budRatioDeadSigma}},
       {"morph_live_sigma", calls.emission.morphLiveSigma},
       {"morph_dead_mean", calls.emission.morphDeadMean}};

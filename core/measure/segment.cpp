@@ -1,8 +1,8 @@
 #include "core/measure/segment.h"
 
 #include <algorithm>
-#include <cstdint>
 #include <cmath>
+#include <cstdint>
 #include <numbers>
 #include <numeric>
 #include <opencv2/imgproc.hpp>
@@ -25,38 +25,41 @@ cv::Mat smoothedDifference(const cv::Mat& crop, const cv::Mat& background, doubl
 // Fills holes: background pixels not reachable from the image border through
 // background (4-connected), by a flood from the border.
 void fillHoles(cv::Mat& mask) {
+  if (!mask.isContinuous()) mask = mask.clone();
   const int W = mask.cols, H = mask.rows;
-  std::vector<uchar> reached(static_cast<std::size_t>(W * H), 0);
-  std::vector<int> stack;
-  auto seed = [&](int x, int y) {
-    const int i = y * W + x;
-    if (!mask.at<uchar>(y, x) && !reached[static_cast<std::size_t>(i)]) {
-      reached[static_cast<std::size_t>(i)] = 1;
+  if (W < 3 || H < 3) return;
+  thread_local std::vector<uchar> reached;
+  thread_local std::vector<int> stack;
+  reached.assign(static_cast<std::size_t>(W) * static_cast<std::size_t>(H), 0);
+  stack.clear();
+  uchar* m = mask.data;
+  uchar* r = reached.data();
+  auto seed = [&](int i) {
+    if (!m[i] && !r[i]) {
+      r[i] = 1;
       stack.push_back(i);
     }
   };
   for (int x = 0; x < W; ++x) {
-    seed(x, 0);
-    seed(x, H - 1);
+    seed(x);
+    seed((H - 1) * W + x);
   }
-  for (int y = 0; y < H; ++y) {
-    seed(0, y);
-    seed(W - 1, y);
+  for (int y = 1; y < H - 1; ++y) {
+    seed(y * W);
+    seed(y * W + W - 1);
   }
   while (!stack.empty()) {
     const int i = stack.back();
     stack.pop_back();
-    const int x = i % W, y = i / W;
-    if (x > 0) seed(x - 1, y);
-    if (x < W - 1) seed(x + 1, y);
-    if (y > 0) seed(x, y - 1);
-    if (y < H - 1) seed(x, y + 1);
+    const int x = i % W;
+    if (x > 0) seed(i - 1);
+    if (x < W - 1) seed(i + 1);
+    if (i >= W) seed(i - W);
+    if (i < (H - 1) * W) seed(i + W);
   }
-  for (int y = 0; y < H; ++y) {
-    uchar* m = mask.ptr<uchar>(y);
-    for (int x = 0; x < W; ++x)
-      if (!reached[static_cast<std::size_t>(y * W + x)]) m[x] = 255;
-  }
+  const int n = W * H;
+  for (int i = 0; i < n; ++i)
+    if (!r[i]) m[i] = 255;
 }
 
 // Pixels of the outline sign: strong ones (> threshold SDs) and the weaker ones
@@ -256,8 +259,7 @@ void floodFromSeeds(const cv::Mat& dist, const cv::Mat& mask, const cv::Mat& com
 }
 
 // Labels the mask's cells (1..n) in `labels` (CV_32S), splitting touching ones.
-int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels) {
-  cv::Mat dist;
+int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels, cv::Mat& dist) {
   cv::distanceTransform(mask, dist, cv::DIST_L2, 3);
   // Peaks: maxima of the distance map in a 5x5 window; a plateau of equal maxima is
   // one peak (its first pixel).
@@ -372,13 +374,13 @@ struct Moments {
 // A bud still joined to the mother without a neck the watershed can cut: the part of
 // her region beyond her inscribed circle (plus a margin for a slightly oval mother).
 // When it is large enough it becomes the bud and the mother keeps the rest.
-void splitProtrusion(cv::Mat& motherMask, const cv::Mat& diff, double sd, const CropGeometry& g,
-                     const SegmentParams& params, CropReading& out) {
-  cv::Mat dist;
-  cv::distanceTransform(motherMask, dist, cv::DIST_L2, 3);
+void splitProtrusion(cv::Mat& motherMask, const cv::Mat& dist, const cv::Mat& diff, double sd,
+                     const CropGeometry& g, const SegmentParams& params, CropReading& out) {
+  // Her inscribed circle: the deepest point of the foreground's distance map inside her
+  // (a bud joined at a neck does not reach that deep).
   double radius = 0;
   cv::Point centre;
-  cv::minMaxLoc(dist, nullptr, &radius, nullptr, &centre);
+  cv::minMaxLoc(dist, nullptr, &radius, nullptr, &centre, motherMask);
   if (radius < 2) return;
   const double margin = std::max(1.5, 0.15 * radius);
   const double reach = radius + margin;
@@ -457,7 +459,8 @@ cv::Rect foregroundBox(const cv::Mat& diff, double sd, const SegmentParams& para
   for (int y = 1; y < H - 1; ++y)
     for (int x = 1; x < W - 1; ++x) {
       if (!strong(x, y)) continue;
-      const int neighbours = strong(x - 1, y) + strong(x + 1, y) + strong(x, y - 1) + strong(x, y + 1);
+      const int neighbours =
+          strong(x - 1, y) + strong(x + 1, y) + strong(x, y - 1) + strong(x, y + 1);
       if (neighbours < 2) continue;
       x0 = std::min(x0, x);
       y0 = std::min(y0, y);
@@ -521,8 +524,8 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
     return out;
   }
 
-  cv::Mat labels;
-  const int n = splitCells(mask, params, labels);
+  cv::Mat labels, dist;
+  const int n = splitCells(mask, params, labels, dist);
   std::vector<Moments> mom(static_cast<std::size_t>(n + 1));
   for (int y = 0; y < labels.rows; ++y) {
     const int* l = labels.ptr<int>(y);
@@ -564,7 +567,7 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
     if (cellOfLabel[static_cast<std::size_t>(l)] == out.mother) motherLabel = l;
   cv::Mat motherMask = labels == motherLabel;
   const std::size_t cellsBefore = out.cells.size();
-  splitProtrusion(motherMask, diff, sd, geometry, params, out);
+  splitProtrusion(motherMask, dist, diff, sd, geometry, params, out);
   if (params.keepMask) {
     const int protrusion = out.cells.size() > cellsBefore ? static_cast<int>(cellsBefore) : -1;
     out.mask = cellIndexImage(labels, cellOfLabel, out.mother, motherMask, protrusion);
@@ -653,7 +656,8 @@ CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double n
     sd = 1.0;
   }
   // Kept signed by the outline sign: a halo of the other sign reads as background.
-  if (params.keepMask) out.difference = diff * ((params.polarity == 0 ? 1.0 : params.polarity) / sd);
+  if (params.keepMask)
+    out.difference = diff * ((params.polarity == 0 ? 1.0 : params.polarity) / sd);
   {
     // Segmentation-free presence: mean |difference| in the disk a mother would fill.
     const double r = std::max(1.0, params.motherRadiusPx);
