@@ -24,15 +24,17 @@ TEST(EngineAccuracy, NormalDifficultyFreshSeed) {
   std::cerr << evaluate::toMarkdown(s);
   EXPECT_GE(s.kind(EventKind::Separation).f1(), 0.80);
   EXPECT_GE(s.kind(EventKind::Bud).f1(), 0.70);
-  EXPECT_LE(std::abs(s.bias), 2.0);
-  EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.6);
+  EXPECT_LE(std::abs(s.bias), 0.5);
+  EXPECT_LE(s.mae, 1.0);
+  EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.9);
 }
 
 TEST(EngineAccuracy, EasyDifficultyFreshSeed) {
   const auto s = testing::simulateAndScore(small(7302, demo::Difficulty::Easy, 120), "easy");
   std::cerr << evaluate::toMarkdown(s);
   EXPECT_GE(s.kind(EventKind::Separation).f1(), 0.85);
-  EXPECT_LE(std::abs(s.bias), 1.5);
+  EXPECT_LE(std::abs(s.bias), 0.6);
+  EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.85);
 }
 
 }  // namespace
