@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <array>
 #include <atomic>
 #include <chrono>
 #include <cmath>
@@ -152,16 +153,25 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   measure::SegmentParams seg = options.segment;
   seg.motherRadiusPx = startRadius;
   seg.keepMask = false;
-  std::vector<double> noises;
-  for (std::size_t i = 0; i < N; ++i)
+  // Calibration runs per trap in parallel; results are pooled in trap order, so
+  // they do not depend on the number of threads.
+  std::vector<std::vector<double>> trapNoises(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
     for (const auto& s : samples[i])
-      noises.push_back(measure::estimateNoise(s, background.background(i), seg.smoothSigmaPx));
+      trapNoises[i].push_back(
+          measure::estimateNoise(s, background.background(i), seg.smoothSigmaPx));
+  });
+  std::vector<double> noises;
+  for (const auto& v : trapNoises) noises.insert(noises.end(), v.begin(), v.end());
   const double noise = std::max(1e-9, median(noises));
   // Every other sample is plenty for the outline sign and the seat (they pool all traps).
-  measure::OutlineAreas areas;
-  for (std::size_t i = 0; i < N; ++i)
+  std::vector<measure::OutlineAreas> trapAreas(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
     for (std::size_t k = 0; k < samples[i].size(); k += 2)
-      areas += measure::outlineAreas(samples[i][k], background.background(i), noise, seg);
+      trapAreas[i] += measure::outlineAreas(samples[i][k], background.background(i), noise, seg);
+  });
+  measure::OutlineAreas areas;
+  for (const auto& a : trapAreas) areas += a;
   seg.polarity = measure::choosePolarity(areas);
   const measure::CropGeometry geometry{in.cup.x, in.cup.y, in.pixelUm};
   // Registration is good to a fraction of a pixel; the posts' edges then leave residuals
@@ -175,23 +185,30 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   const double shift =
       measure::estimateShift(emptyCrops, emptyBackgrounds, noise, seg.smoothSigmaPx);
   std::vector<cv::Mat> noiseMaps(N);
-  for (std::size_t i = 0; i < N; ++i)
+  parallelFor(N, options.threads, [&](std::size_t i) {
     noiseMaps[i] = measure::noiseMap(background.background(i), noise, shift, seg.smoothSigmaPx);
+  });
   // Where mothers sit and how big they are, from the samples: the seat can be a few
   // pixels off the lattice's cup centre, and cell size varies with strain and optics.
   measure::CropGeometry seatGeometry = geometry;
-  std::vector<double> motherAreas, seatX, seatY;
   measure::SegmentParams searching = seg;
   searching.seatRadiusFactor = 1.5 * seg.seatRadiusFactor;
-  for (std::size_t i = 0; i < N; ++i)
+  std::vector<std::vector<std::array<double, 3>>> trapMothers(N);  // area, x, y
+  parallelFor(N, options.threads, [&](std::size_t i) {
     for (std::size_t k = 1; k < samples[i].size(); k += 2) {
       const auto r = measure::segmentCrop(samples[i][k], background.background(i), noise, geometry,
                                           searching, &noiseMaps[i]);
       if (r.mother < 0) continue;
       const auto& m = r.cells[static_cast<std::size_t>(r.mother)];
-      motherAreas.push_back(m.areaPx);
-      seatX.push_back(m.x);
-      seatY.push_back(m.y);
+      trapMothers[i].push_back({m.areaPx, m.x, m.y});
+    }
+  });
+  std::vector<double> motherAreas, seatX, seatY;
+  for (const auto& v : trapMothers)
+    for (const auto& m : v) {
+      motherAreas.push_back(m[0]);
+      seatX.push_back(m[1]);
+      seatY.push_back(m[2]);
     }
   if (motherAreas.size() >= 5) {
     seg.motherRadiusPx = std::clamp(std::sqrt(median(motherAreas) / std::numbers::pi),
@@ -301,13 +318,20 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   timing["events_s"] = lap();
   // 5. Records.
   progress("engine: records", 0.9);
+  std::vector<std::vector<std::string>> reviews(N);
   for (std::size_t i = 0; i < N; ++i) {
     const auto& tc = calls.traps[i];
     out.events.insert(out.events.end(), tc.events.begin(), tc.events.end());
-    std::vector<std::string> review = tc.flags;
+    reviews[i] = tc.flags;
     if (background.source(i) == measure::BackgroundModel::Source::Fallback)
-      review.push_back("background-from-occupied-traps");
-    for (const auto& r : review) out.flags.push_back({in.trapIds[i], r});
+      reviews[i].push_back("background-from-occupied-traps");
+    for (const auto& r : reviews[i]) out.flags.push_back({in.trapIds[i], r});
+  }
+  // The records (JSON per trap-frame) in parallel, appended in trap order.
+  std::vector<std::vector<store::MeasurementRecord>> records(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
+    const auto& review = reviews[i];
+    records[i].reserve(static_cast<std::size_t>(T));
     for (int t = 0; t < T; ++t) {
       const auto ut = static_cast<std::size_t>(t);
       store::MeasurementRecord m;
@@ -322,9 +346,13 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       m.pCrowded = p[3];
       m.cellCount = static_cast<int>(readings[i][ut].cells.size());
       m.featuresJson = featuresJson(readings[i][ut], features[i][ut], informative[ut], review);
-      out.measurements.push_back(std::move(m));
+      records[i].push_back(std::move(m));
     }
-  }
+  });
+  out.measurements.reserve(N * static_cast<std::size_t>(T));
+  for (auto& r : records)
+    out.measurements.insert(out.measurements.end(), std::make_move_iterator(r.begin()),
+                            std::make_move_iterator(r.end()));
   timing["records_s"] = lap();
   out.calibration["timing"] = timing;
   if (options.keepFeatures) {
