@@ -55,13 +55,14 @@ std::string_view roleName(measure::CellRole r) {
 }
 
 std::string featuresJson(const measure::CropReading& r, const measure::FrameFeatures& f,
-                         bool informative, const std::vector<std::string>& review) {
+                         bool informative, const std::vector<std::string>& review,
+                         cv::Point origin) {
   nlohmann::json j;
   if (!informative) j["informative"] = false;
   auto round3 = [](double v) { return std::round(v * 1000) / 1000; };
   for (const auto& c : r.cells)
-    j["cells"].push_back({{"x", round3(c.x)},
-                          {"y", round3(c.y)},
+    j["cells"].push_back({{"x", round3(c.x + origin.x)},
+                          {"y", round3(c.y + origin.y)},
                           {"area_um2", round3(c.areaUm2)},
                           {"diameter_um", round3(c.diameterUm)},
                           {"eccentricity", round3(c.eccentricity)},
@@ -83,6 +84,7 @@ nlohmann::json parametersJson(const EngineOptions& o) {
           {"version", kVersion},
           {"mother_diameter_um_start", o.motherDiameterUm},
           {"background_samples", o.backgroundSamples},
+          {"window_um", o.windowUm},
           {"lodged_neighbour_min", o.lodgedMin},
           {"segment",
            {{"threshold_sd", s.threshold},
@@ -345,7 +347,8 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       m.pBudded = p[2];
       m.pCrowded = p[3];
       m.cellCount = static_cast<int>(readings[i][ut].cells.size());
-      m.featuresJson = featuresJson(readings[i][ut], features[i][ut], informative[ut], review);
+      m.featuresJson =
+          featuresJson(readings[i][ut], features[i][ut], informative[ut], review, in.cropOrigin);
       records[i].push_back(std::move(m));
     }
   });
