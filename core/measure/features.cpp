@@ -1,8 +1,8 @@
 #include "core/measure/features.h"
 
 #include <algorithm>
-#include <cstdint>
 #include <cmath>
+#include <cstdint>
 #include <limits>
 #include <numbers>
 
@@ -20,9 +20,8 @@ double gapBetween(const Cell& a, const Cell& b) {
 
 std::string_view featureName(int i) {
   static constexpr std::string_view names[kFeatureCount] = {
-      "mother",          "mother_area",   "bud_ratio",       "attached_cells",
-      "neighbour_gap",   "neighbour_area", "cup_strength",   "foreground_area",
-      "mother_elongation", "mother_offset"};
+      "mother",         "mother_area",  "bud_ratio",       "attached_cells",    "neighbour_gap",
+      "neighbour_area", "cup_strength", "foreground_area", "mother_elongation", "mother_offset"};
   return i >= 0 && i < kFeatureCount ? names[i] : "?";
 }
 
@@ -45,7 +44,7 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
   struct Track {
     int first = 0, last = 0;
     double x = 0, y = 0;
-      std::vector<std::pair<int, int>> members;  // (frame, cell)
+    std::vector<std::pair<int, int>> members;  // (frame, cell)
   };
   std::vector<Track> tracks;
   std::vector<int> open;  // indexes of tracks seen in the previous frame

@@ -214,8 +214,8 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
   EmissionParams emission = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
   const std::size_t n = evidence.size();
   const int iterations = std::max(0, options.emIterations);
-  int workers = options.threads > 0 ? options.threads
-                                    : static_cast<int>(std::thread::hardware_concurrency());
+  int workers =
+      options.threads > 0 ? options.threads : static_cast<int>(std::thread::hardware_concurrency());
   workers = std::max(1, workers);
 
   // Start: a mother is wherever the classifier sees anything; her live baseline and the
@@ -229,7 +229,7 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
     const auto ref = liveReference(evidence, pLive);
     for (std::size_t i = 0; i < n; ++i)
       baselines[i].assign(ref.begin(), ref.begin() + static_cast<std::ptrdiff_t>(
-                                                       std::min(ref.size(), evidence[i].size())));
+                                                         std::min(ref.size(), evidence[i].size())));
   };
   updateBaselines();
   for (int j = 0; j < kMorphCount; ++j) {

@@ -22,7 +22,8 @@ struct Fixture {
       layout.traps.push_back(t);
     }
     drift.resize(static_cast<std::size_t>(frames));
-    context.name = std::string(1, 'P');  // not a literal: GCC 12 warns falsely (-Wrestrict) on that assignment
+    context.name =
+        std::string(1, 'P');  // not a literal: GCC 12 warns falsely (-Wrestrict) on that assignment
     context.info = &info;
     context.layout = &layout;
     context.drift = &drift;

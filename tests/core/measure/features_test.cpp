@@ -159,7 +159,7 @@ TEST(Occupancy, TrainingIsDeterministicAndLearnsSeparableClasses) {
     TrainingExample e;
     e.label = i % 3;
     for (auto& v : e.x) v = next();
-    e.x[0] = e.label == 0 ? 0.0 : 1.0;          // mother present
+    e.x[0] = e.label == 0 ? 0.0 : 1.0;                           // mother present
     e.x[2] = e.label == 2 ? 0.3 + 0.2 * next() : 0.05 * next();  // bud ratio
     data.push_back(e);
   }

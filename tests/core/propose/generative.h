@@ -131,9 +131,9 @@ inline Sampled sampleTrap(const CycleModel& model, const EmissionParams& ep, int
       }
       f.budRatio = std::max(0.0, mean + sigma * rng.normal());
       const bool sep = model.justSeparated(s);
-      f.departure = std::max(0.0, (sep ? ep.departSeparatedMean : ep.departOtherMean) +
-                                      (sep ? ep.departSeparatedSigma : ep.departOtherSigma) *
-                                          rng.normal());
+      f.departure =
+          std::max(0.0, (sep ? ep.departSeparatedMean : ep.departOtherMean) +
+                            (sep ? ep.departSeparatedSigma : ep.departOtherSigma) * rng.normal());
     }
     const bool deadLook = rng.uniform() < ep.deadLook[static_cast<std::size_t>(g)];
     f.deadLook = deadLook ? 0.6 + 0.39 * rng.uniform() : 0.01 + 0.3 * rng.uniform();
