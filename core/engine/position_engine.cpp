@@ -151,7 +151,25 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   measure::BackgroundOptions bo;
   bo.cupRadiusPx = 1.3 * startRadius;
   bo.threads = options.threads;
-  const auto background = measure::BackgroundModel::learn(samples, in.cup.x, in.cup.y, bo);
+  cv::Point2d cup = in.cup;
+  auto background = measure::BackgroundModel::learn(samples, cup.x, cup.y, bo);
+  if (background.quality() == measure::BackgroundModel::Quality::NoEmptyTrap) {
+    // The lattice's cup centre can sit a few pixels off the seat (it depends on the
+    // trap shape and the optics); a cup disk straddling post edges then sees their
+    // sub-pixel residuals and no two empty traps look alike. Empty traps are alike
+    // wherever the disk avoids the edges, so the disk that finds the most of them,
+    // within a mother radius of the guess, is taken.
+    for (double fy : {-1.0, -0.5, 0.0, 0.5, 1.0})
+      for (double fx : {-1.0, -0.5, 0.0, 0.5, 1.0}) {
+        if (fx == 0 && fy == 0) continue;
+        const cv::Point2d c(in.cup.x + fx * startRadius, in.cup.y + fy * startRadius);
+        auto b = measure::BackgroundModel::learn(samples, c.x, c.y, bo);
+        if (b.emptySamples() > background.emptySamples()) {
+          background = std::move(b);
+          cup = c;
+        }
+      }
+  }
   measure::SegmentParams seg = options.segment;
   seg.motherRadiusPx = startRadius;
   seg.keepMask = false;
@@ -175,7 +193,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   measure::OutlineAreas areas;
   for (const auto& a : trapAreas) areas += a;
   seg.polarity = measure::choosePolarity(areas);
-  const measure::CropGeometry geometry{in.cup.x, in.cup.y, in.pixelUm};
+  const measure::CropGeometry geometry{cup.x, cup.y, in.pixelUm};
   // Registration is good to a fraction of a pixel; the posts' edges then leave residuals
   // that the per-pixel noise map allows for.
   std::vector<const cv::Mat*> emptyCrops, emptyBackgrounds;
@@ -222,6 +240,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
     }
   }
   out.calibration = {{"noise_sd", noise},
+                     {"cup_disk_px", {cup.x, cup.y}},
                      {"polarity", seg.polarity},
                      {"mother_radius_px", seg.motherRadiusPx},
                      {"registration_shift_px", shift},
