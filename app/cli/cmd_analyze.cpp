@@ -3,8 +3,8 @@
 // propose) over every position and writes them, with one engine run holding
 // every position's proposals and measurements, into the project. A new
 // project is built in a temporary file beside the target and renamed into
-// place only when every position succeeded; an existing project gets all positions in one transaction. On
-// failure nothing is left behind either way.
+// place only when every position succeeded; an existing project gets all positions in one
+// transaction. On failure nothing is left behind either way.
 #include <fmt/format.h>
 #include <unistd.h>
 #include <opencv2/core/utility.hpp>
@@ -20,9 +20,9 @@
 #include "app/cli/cli_support.h"
 #include "app/cli/commands.h"
 #include "core/base/error.h"
+#include "core/engine/engine_stage.h"
 #include "core/io/frame_source.h"
 #include "core/io/image_folder.h"
-#include "core/engine/engine_stage.h"
 #include "core/measure/occupancy.h"
 #include "core/pipeline/analyze.h"
 #include "core/store/project.h"
@@ -146,11 +146,11 @@ int runAnalyze(const AnalyzeArgs& args) {
       const auto a = pipeline::analyzePosition(project, *p.source, options, sink, stages);
       lines.push_back(describe(a));
       const auto& outcome = engineStage.outcomes().back();
-      lines.push_back(fmt::format("{}: engine {:.2f} s, {} events proposed, {} trap{} flagged for review{}{}",
-                                  p.name, outcome.result.seconds, outcome.result.events.size(),
-                                  outcome.result.flags.size(),
-                                  outcome.result.flags.size() == 1 ? "" : "s",
-                                  outcome.result.note.empty() ? "" : "; ", outcome.result.note));
+      lines.push_back(
+          fmt::format("{}: engine {:.2f} s, {} events proposed, {} trap{} flagged for review{}{}",
+                      p.name, outcome.result.seconds, outcome.result.events.size(),
+                      outcome.result.flags.size(), outcome.result.flags.size() == 1 ? "" : "s",
+                      outcome.result.note.empty() ? "" : "; ", outcome.result.note));
     }
     const auto run = engineStage.writeRun(project);
     lines.push_back(fmt::format("engine run {} stored", run));

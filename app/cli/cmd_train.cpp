@@ -60,8 +60,8 @@ void report(const std::string& title, const measure::OccupancyModel& m,
              data.size(), static_cast<double>(correct) / data.size());
   for (int b = 0; b < kBins; ++b)
     if (count[static_cast<std::size_t>(b)])
-      fmt::print("  {:.1f}-{:.1f}  {}  {:.3f}  {:.3f}\n", b / double(kBins), (b + 1) / double(kBins),
-                 count[static_cast<std::size_t>(b)],
+      fmt::print("  {:.1f}-{:.1f}  {}  {:.3f}  {:.3f}\n", b / double(kBins),
+                 (b + 1) / double(kBins), count[static_cast<std::size_t>(b)],
                  conf[static_cast<std::size_t>(b)] / count[static_cast<std::size_t>(b)],
                  static_cast<double>(hits[static_cast<std::size_t>(b)]) /
                      count[static_cast<std::size_t>(b)]);
@@ -95,8 +95,7 @@ int runTrain(const TrainArgs& args) {
         const auto& f = r.features[static_cast<std::size_t>(pairs[i])];
         const auto& ev = r.evidence[static_cast<std::size_t>(pairs[i])];
         for (std::size_t t = 0; t < f.size() && t < labels.size(); ++t)
-          if (labels[t] >= 0 && ev[t].informative)
-            all.push_back({{f[t].x, labels[t]}, heldOut});
+          if (labels[t] >= 0 && ev[t].informative) all.push_back({{f[t].x, labels[t]}, heldOut});
       }
     }
   }

@@ -21,6 +21,8 @@ void addSimulateCommand(CLI::App& root, Action& action);
 void addStatsCommand(CLI::App& root, Action& action);
 void addAnalyzeCommand(CLI::App& root, Action& action);
 void addExportCommand(CLI::App& root, Action& action);
+void addEvaluateCommand(CLI::App& root, Action& action);
+void addTrainCommand(CLI::App& root, Action& action);
 void addEditCommand(CLI::App& root, Action& action);
 void addLogCommand(CLI::App& root, Action& action);
 void addVerifyCommand(CLI::App& root, Action& action);
@@ -28,7 +30,5 @@ void addSignoffCommand(CLI::App& root, Action& action);
 void addUndoCommand(CLI::App& root, Action& action);
 void addRedoCommand(CLI::App& root, Action& action);
 void addMergeCommand(CLI::App& root, Action& action);
-void addEvaluateCommand(CLI::App& root, Action& action);
-void addTrainCommand(CLI::App& root, Action& action);
 
 }  // namespace budledger::cli

@@ -1,5 +1,7 @@
 #include "core/engine/engine_stage.h"
 
+#include <cmath>
+
 #include <fmt/format.h>
 
 #include "budledger/version.h"
@@ -25,7 +27,17 @@ void EngineStage::begin(const pipeline::PositionContext& context) {
   ran_ = false;
   if (!context.layout) return;
   // The crop box is relative to the cup centre, so the centre sits at minus its corner.
-  cup_ = {-static_cast<double>(context.layout->crop.x), -static_cast<double>(context.layout->crop.y)};
+  // Only a window of options_.windowUm around the cup is kept and measured.
+  const cv::Rect& crop = context.layout->crop;
+  window_ = cv::Rect(0, 0, crop.width, crop.height);
+  const double pixelUm = context.pixelUm > 0 ? context.pixelUm : 0.25;
+  if (options_.windowUm > 0) {
+    const int half = static_cast<int>(std::ceil(0.5 * options_.windowUm / pixelUm));
+    const cv::Rect around(-crop.x - half, -crop.y - half, 2 * half + 1, 2 * half + 1);
+    window_ &= around;
+    if (window_.empty()) window_ = cv::Rect(0, 0, crop.width, crop.height);
+  }
+  cup_ = {-static_cast<double>(crop.x + window_.x), -static_cast<double>(crop.y + window_.y)};
   for (const auto& t : context.layout->traps) trapIds_.push_back(t.id);
   crops_.assign(trapIds_.size(), std::vector<cv::Mat>(static_cast<std::size_t>(frames_)));
 }
@@ -34,7 +46,7 @@ void EngineStage::frame(const pipeline::FrameView& view) {
   if (!view.crops || view.frame < 0 || view.frame >= frames_) return;
   const auto t = static_cast<std::size_t>(view.frame);
   for (std::size_t i = 0; i < crops_.size() && i < view.crops->size(); ++i)
-    (*view.crops)[i].copyTo(crops_[i][t]);
+    (*view.crops)[i](window_).copyTo(crops_[i][t]);
   informative_[t] = view.drift && frameIsInformative(*view.drift);
   if (view.frame == frames_ - 1) run();
 }
@@ -46,15 +58,17 @@ void EngineStage::run() {
   const bool failed = frames_ > 0 && usable < frames_ / 2;
   if (failed || crops_.empty()) {
     pending_.note = crops_.empty() ? "no traps: nothing to measure"
-                                   : fmt::format("registration failed on {} of {} frames: no "
-                                                 "events proposed",
-                                                 frames_ - usable, frames_);
+                                   : fmt::format(
+                                         "registration failed on {} of {} frames: no "
+                                         "events proposed",
+                                         frames_ - usable, frames_);
     for (int id : trapIds_) pending_.flags.push_back({id, "registration-failed"});
   } else {
     EngineInputs in;
     in.intervalMin = context_.intervalMin > 0 ? context_.intervalMin : 10.0;
     in.pixelUm = context_.pixelUm > 0 ? context_.pixelUm : 0.25;
     in.cup = cup_;
+    in.cropOrigin = window_.tl();
     in.trapIds = trapIds_;
     in.crops = &crops_;
     in.informative = informative_;

@@ -49,7 +49,8 @@ class EngineStage : public pipeline::FrameStage {
   Progress progress_;
   pipeline::PositionContext context_;
   int frames_ = 0;
-  cv::Point2d cup_;
+  cv::Point2d cup_;                          // in window coordinates
+  cv::Rect window_;                          // the part of the layout's crop box that is kept
   std::vector<std::vector<cv::Mat>> crops_;  // [trap][frame]
   std::vector<bool> informative_;
   std::vector<int> trapIds_;

@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <algorithm>
+#include <array>
 #include <atomic>
 #include <chrono>
 #include <cmath>
@@ -54,13 +55,14 @@ std::string_view roleName(measure::CellRole r) {
 }
 
 std::string featuresJson(const measure::CropReading& r, const measure::FrameFeatures& f,
-                         bool informative, const std::vector<std::string>& review) {
+                         bool informative, const std::vector<std::string>& review,
+                         cv::Point origin) {
   nlohmann::json j;
   if (!informative) j["informative"] = false;
   auto round3 = [](double v) { return std::round(v * 1000) / 1000; };
   for (const auto& c : r.cells)
-    j["cells"].push_back({{"x", round3(c.x)},
-                          {"y", round3(c.y)},
+    j["cells"].push_back({{"x", round3(c.x + origin.x)},
+                          {"y", round3(c.y + origin.y)},
                           {"area_um2", round3(c.areaUm2)},
                           {"diameter_um", round3(c.diameterUm)},
                           {"eccentricity", round3(c.eccentricity)},
@@ -82,6 +84,7 @@ nlohmann::json parametersJson(const EngineOptions& o) {
           {"version", kVersion},
           {"mother_diameter_um_start", o.motherDiameterUm},
           {"background_samples", o.backgroundSamples},
+          {"window_um", o.windowUm},
           {"lodged_neighbour_min", o.lodgedMin},
           {"segment",
            {{"threshold_sd", s.threshold},
@@ -148,38 +151,107 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   measure::BackgroundOptions bo;
   bo.cupRadiusPx = 1.3 * startRadius;
   bo.threads = options.threads;
-  const auto background = measure::BackgroundModel::learn(samples, in.cup.x, in.cup.y, bo);
+  cv::Point2d cup = in.cup;
+  auto background = measure::BackgroundModel::learn(samples, cup.x, cup.y, bo);
+  if (background.quality() == measure::BackgroundModel::Quality::NoEmptyTrap) {
+    // The lattice's cup centre can sit a few pixels off the seat (it depends on the
+    // trap shape and the optics); a cup disk straddling post edges then sees their
+    // sub-pixel residuals and no two empty traps look alike. Empty traps are alike
+    // wherever the disk avoids the edges, so the disk that finds the most of them,
+    // within a mother radius of the guess, is taken.
+    for (double fy : {-1.0, -0.5, 0.0, 0.5, 1.0})
+      for (double fx : {-1.0, -0.5, 0.0, 0.5, 1.0}) {
+        if (fx == 0 && fy == 0) continue;
+        const cv::Point2d c(in.cup.x + fx * startRadius, in.cup.y + fy * startRadius);
+        auto b = measure::BackgroundModel::learn(samples, c.x, c.y, bo);
+        if (b.emptySamples() > background.emptySamples()) {
+          background = std::move(b);
+          cup = c;
+        }
+      }
+  }
   measure::SegmentParams seg = options.segment;
   seg.motherRadiusPx = startRadius;
   seg.keepMask = false;
-  std::vector<double> noises;
-  for (std::size_t i = 0; i < N; ++i)
+  // Calibration runs per trap in parallel; results are pooled in trap order, so
+  // they do not depend on the number of threads.
+  std::vector<std::vector<double>> trapNoises(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
     for (const auto& s : samples[i])
-      noises.push_back(measure::estimateNoise(s, background.background(i), seg.smoothSigmaPx));
+      trapNoises[i].push_back(
+          measure::estimateNoise(s, background.background(i), seg.smoothSigmaPx));
+  });
+  std::vector<double> noises;
+  for (const auto& v : trapNoises) noises.insert(noises.end(), v.begin(), v.end());
   const double noise = std::max(1e-9, median(noises));
+  // Every other sample is plenty for the outline sign and the seat (they pool all traps).
+  std::vector<measure::OutlineAreas> trapAreas(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
+    for (std::size_t k = 0; k < samples[i].size(); k += 2)
+      trapAreas[i] += measure::outlineAreas(samples[i][k], background.background(i), noise, seg);
+  });
   measure::OutlineAreas areas;
-  for (std::size_t i = 0; i < N; ++i)
-    for (const auto& s : samples[i]) areas += measure::outlineAreas(s, background.background(i), noise, seg);
+  for (const auto& a : trapAreas) areas += a;
   seg.polarity = measure::choosePolarity(areas);
-  const measure::CropGeometry geometry{in.cup.x, in.cup.y, in.pixelUm};
-  std::vector<double> motherAreas;
+  const measure::CropGeometry geometry{cup.x, cup.y, in.pixelUm};
+  // Registration is good to a fraction of a pixel; the posts' edges then leave residuals
+  // that the per-pixel noise map allows for.
+  std::vector<const cv::Mat*> emptyCrops, emptyBackgrounds;
   for (std::size_t i = 0; i < N; ++i)
-    for (const auto& s : samples[i]) {
-      const auto r = measure::segmentCrop(s, background.background(i), noise, geometry, seg);
-      if (r.mother >= 0) motherAreas.push_back(r.cells[static_cast<std::size_t>(r.mother)].areaPx);
+    for (int k : background.empties()[i]) {
+      emptyCrops.push_back(&samples[i][static_cast<std::size_t>(k)]);
+      emptyBackgrounds.push_back(&background.background(i));
     }
-  if (motherAreas.size() >= 5)
+  const double shift =
+      measure::estimateShift(emptyCrops, emptyBackgrounds, noise, seg.smoothSigmaPx);
+  std::vector<cv::Mat> noiseMaps(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
+    noiseMaps[i] = measure::noiseMap(background.background(i), noise, shift, seg.smoothSigmaPx);
+  });
+  // Where mothers sit and how big they are, from the samples: the seat can be a few
+  // pixels off the lattice's cup centre, and cell size varies with strain and optics.
+  measure::CropGeometry seatGeometry = geometry;
+  measure::SegmentParams searching = seg;
+  searching.seatRadiusFactor = 1.5 * seg.seatRadiusFactor;
+  std::vector<std::vector<std::array<double, 3>>> trapMothers(N);  // area, x, y
+  parallelFor(N, options.threads, [&](std::size_t i) {
+    for (std::size_t k = 1; k < samples[i].size(); k += 2) {
+      const auto r = measure::segmentCrop(samples[i][k], background.background(i), noise, geometry,
+                                          searching, &noiseMaps[i]);
+      if (r.mother < 0) continue;
+      const auto& m = r.cells[static_cast<std::size_t>(r.mother)];
+      trapMothers[i].push_back({m.areaPx, m.x, m.y});
+    }
+  });
+  std::vector<double> motherAreas, seatX, seatY;
+  for (const auto& v : trapMothers)
+    for (const auto& m : v) {
+      motherAreas.push_back(m[0]);
+      seatX.push_back(m[1]);
+      seatY.push_back(m[2]);
+    }
+  if (motherAreas.size() >= 5) {
     seg.motherRadiusPx = std::clamp(std::sqrt(median(motherAreas) / std::numbers::pi),
                                     0.6 * startRadius, 1.6 * startRadius);
+    const double dx = median(seatX) - geometry.cupX, dy = median(seatY) - geometry.cupY;
+    if (std::hypot(dx, dy) < seg.motherRadiusPx) {
+      seatGeometry.cupX += dx;
+      seatGeometry.cupY += dy;
+    }
+  }
   out.calibration = {{"noise_sd", noise},
+                     {"cup_disk_px", {cup.x, cup.y}},
                      {"polarity", seg.polarity},
                      {"mother_radius_px", seg.motherRadiusPx},
+                     {"registration_shift_px", shift},
+                     {"seat_px", {seatGeometry.cupX, seatGeometry.cupY}},
                      {"empty_samples", background.emptySamples()},
                      {"background_floor", background.noiseFloor()},
                      {"sample_frames", sampleFrames.size()}};
   if (background.quality() == measure::BackgroundModel::Quality::NoEmptyTrap)
-    out.note = "no trap looked empty in any sampled frame: backgrounds are the lattice median "
-               "of occupied traps, calls need review";
+    out.note =
+        "no trap looked empty in any sampled frame: backgrounds are the lattice median "
+        "of occupied traps, calls need review";
 
   timing["calibration_s"] = lap();
   // 3. Cells, features and occupancy in every crop; evidence for the temporal model.
@@ -204,8 +276,8 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       const auto ut = static_cast<std::size_t>(t);
       if (!informative[ut]) continue;
       const cv::Mat crop = measure::normaliseCrop(crops[i][ut]);
-      readings[i][ut] =
-          measure::segmentCrop(crop, background.background(i), noise, geometry, segKeep);
+      readings[i][ut] = measure::segmentCrop(crop, background.background(i), noise, seatGeometry,
+                                             segKeep, &noiseMaps[i]);
     }
     const auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
     int previous = -1;  // last informative frame
@@ -231,8 +303,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
           attached.push_back(a.cell);
       if (previous >= 0 && f.hasMother)
         e.departure = measure::departedArea(readings[i][static_cast<std::size_t>(previous)],
-                                            previousAttached, readings[i][ut],
-                                            0.5 * seg.threshold);
+                                            previousAttached, readings[i][ut], 0.5 * seg.threshold);
       previous = t;
       previousAttached = std::move(attached);
     }
@@ -259,7 +330,8 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       {"occupancy_given_state", calls.emission.occupancy},
       {"bud_ratio_by_age", calls.emission.budRatioMean},
       {"bud_ratio_sigma", calls.emission.budRatioSigma},
-      {"bud_ratio_unbudded", {calls.emission.budRatioUnbuddedMean, calls.emission.budRatioUnbuddedSigma}},
+      {"bud_ratio_unbudded",
+       {calls.emission.budRatioUnbuddedMean, calls.emission.budRatioUnbuddedSigma}},
       {"bud_ratio_dead", {calls.emission.budRatioDeadMean, calls.emission.budRatioDeadSigma}},
       {"morph_live_sigma", calls.emission.morphLiveSigma},
       {"morph_dead_mean", calls.emission.morphDeadMean}};
@@ -267,13 +339,20 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   timing["events_s"] = lap();
   // 5. Records.
   progress("engine: records", 0.9);
+  std::vector<std::vector<std::string>> reviews(N);
   for (std::size_t i = 0; i < N; ++i) {
     const auto& tc = calls.traps[i];
     out.events.insert(out.events.end(), tc.events.begin(), tc.events.end());
-    std::vector<std::string> review = tc.flags;
+    reviews[i] = tc.flags;
     if (background.source(i) == measure::BackgroundModel::Source::Fallback)
-      review.push_back("background-from-occupied-traps");
-    for (const auto& r : review) out.flags.push_back({in.trapIds[i], r});
+      reviews[i].push_back("background-from-occupied-traps");
+    for (const auto& r : reviews[i]) out.flags.push_back({in.trapIds[i], r});
+  }
+  // The records (JSON per trap-frame) in parallel, appended in trap order.
+  std::vector<std::vector<store::MeasurementRecord>> records(N);
+  parallelFor(N, options.threads, [&](std::size_t i) {
+    const auto& review = reviews[i];
+    records[i].reserve(static_cast<std::size_t>(T));
     for (int t = 0; t < T; ++t) {
       const auto ut = static_cast<std::size_t>(t);
       store::MeasurementRecord m;
@@ -287,10 +366,15 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       m.pBudded = p[2];
       m.pCrowded = p[3];
       m.cellCount = static_cast<int>(readings[i][ut].cells.size());
-      m.featuresJson = featuresJson(readings[i][ut], features[i][ut], informative[ut], review);
-      out.measurements.push_back(std::move(m));
+      m.featuresJson =
+          featuresJson(readings[i][ut], features[i][ut], informative[ut], review, in.cropOrigin);
+      records[i].push_back(std::move(m));
     }
-  }
+  });
+  out.measurements.reserve(N * static_cast<std::size_t>(T));
+  for (auto& r : records)
+    out.measurements.insert(out.measurements.end(), std::make_move_iterator(r.begin()),
+                            std::make_move_iterator(r.end()));
   timing["records_s"] = lap();
   out.calibration["timing"] = timing;
   if (options.keepFeatures) {

@@ -28,7 +28,11 @@ namespace budledger::engine {
 struct EngineOptions {
   double motherDiameterUm = 4.4;  // starting guess (common practice), refined from the data
   int backgroundSamples = 16;     // frames per trap the background is learned from
-  double lodgedMin = 150;         // an unchanging neighbour for this long is not a bud
+  // Side of the square around the cup that is measured (0: the whole crop). A mother,
+  // a bud and a daughter beside her lie within ~2 mother diameters of the seat; a wider
+  // lattice cell (sparse arrays) only adds pixels without evidence about her events.
+  double windowUm = 20;
+  double lodgedMin = 150;  // an unchanging neighbour for this long is not a bud
   measure::SegmentParams segment;
   propose::ProposeOptions propose;
   int threads = 0;            // 0: all hardware threads
@@ -39,10 +43,12 @@ struct EngineInputs {
   int position = 0;
   double intervalMin = 10;
   double pixelUm = 0.25;
-  cv::Point2d cup;                              // cup centre in crop pixels
-  std::vector<int> trapIds;                     // one per crop series
+  cv::Point2d cup;  // cup centre in crop pixels
+  cv::Point
+      cropOrigin;  // the crops' corner within the layout's crop box (cell x, y are given there)
+  std::vector<int> trapIds;                                  // one per crop series
   const std::vector<std::vector<cv::Mat>>* crops = nullptr;  // [trap][frame], one size
-  std::vector<bool> informative;                // per frame (focus, registration)
+  std::vector<bool> informative;                             // per frame (focus, registration)
 };
 
 struct TrapFlag {

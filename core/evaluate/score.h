@@ -87,7 +87,8 @@ Score score(const Truth& truth, const std::vector<EnginePosition>& engine,
 
 // Pairs truth traps with engine traps (index into `engine` per truth trap, -1 when none):
 // nearest centre within half the pitch, after removing the median offset.
-std::vector<int> pairTraps(const std::vector<TruthTrap>& truth, const std::vector<EngineTrap>& engine);
+std::vector<int> pairTraps(const std::vector<TruthTrap>& truth,
+                           const std::vector<EngineTrap>& engine);
 
 // Kaplan-Meier median of divisions: smallest d with S(d) <= 0.5, NaN if never.
 double kaplanMeierMedian(const std::vector<std::pair<int, bool>>& divisionsAndDied);

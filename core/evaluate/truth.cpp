@@ -176,7 +176,8 @@ std::vector<int> truthOccupancy(const TruthPosition& p, int trap) {
       // A bud present from before the first frame: budded from frame 0.
       const int from = budFrom >= 0 ? budFrom : 0;
       for (int t = from; t < e.frame && t < p.frames; ++t)
-        if (out[static_cast<std::size_t>(t)] == kTruthSingle) out[static_cast<std::size_t>(t)] = kTruthBudded;
+        if (out[static_cast<std::size_t>(t)] == kTruthSingle)
+          out[static_cast<std::size_t>(t)] = kTruthBudded;
       budFrom = -1;
     }
     if (e.kind == EventKind::Death || e.kind == EventKind::Washout) budFrom = -1;

@@ -30,7 +30,8 @@ struct Cell {
 struct CropReading {
   std::vector<Cell> cells;
   // When asked for (SegmentParams::keepMask): CV_16U, cell index + 1 per pixel, 0 for
-  // background; and the smoothed difference to the background in noise SDs (CV_32F).
+  // background; and the smoothed difference to the background in noise SDs, times the
+  // outline sign (CV_32F).
   cv::Mat mask;
   cv::Mat difference;
   int mother = -1;

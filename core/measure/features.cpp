@@ -1,8 +1,8 @@
 #include "core/measure/features.h"
 
 #include <algorithm>
-#include <cstdint>
 #include <cmath>
+#include <cstdint>
 #include <limits>
 #include <numbers>
 
@@ -20,9 +20,8 @@ double gapBetween(const Cell& a, const Cell& b) {
 
 std::string_view featureName(int i) {
   static constexpr std::string_view names[kFeatureCount] = {
-      "mother",          "mother_area",   "bud_ratio",       "attached_cells",
-      "neighbour_gap",   "neighbour_area", "cup_strength",   "foreground_area",
-      "mother_elongation", "mother_offset"};
+      "mother",         "mother_area",  "bud_ratio",       "attached_cells",    "neighbour_gap",
+      "neighbour_area", "cup_strength", "foreground_area", "mother_elongation", "mother_offset"};
   return i >= 0 && i < kFeatureCount ? names[i] : "?";
 }
 
@@ -45,7 +44,7 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
   struct Track {
     int first = 0, last = 0;
     double x = 0, y = 0;
-      std::vector<std::pair<int, int>> members;  // (frame, cell)
+    std::vector<std::pair<int, int>> members;  // (frame, cell)
   };
   std::vector<Track> tracks;
   std::vector<int> open;  // indexes of tracks seen in the previous frame
@@ -115,7 +114,7 @@ double departedArea(const CropReading& before, const std::vector<int>& attachedB
     const auto* n = now.mask.ptr<std::uint16_t>(y);
     const float* d = now.difference.ptr<float>(y);
     for (int x = 0; x < now.mask.cols; ++x)
-      if (b[x] && wasAttached[b[x]] && n[x] == 0 && std::abs(d[x]) < backgroundSd) ++gone;
+      if (b[x] && wasAttached[b[x]] && n[x] == 0 && d[x] < backgroundSd) ++gone;
   }
   return gone / std::max(1.0, now.cells[static_cast<std::size_t>(now.mother)].areaPx);
 }

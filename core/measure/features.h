@@ -51,8 +51,9 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
 // `now`, over the mother's area: a daughter carried away as she separates. Cells that
 // were already apart (a daughter drifting off) do not count. Needs keepMask readings;
 // `attachedBefore` are the bud candidates of `before` (lodged ones excluded).
-// A pixel has gone when it shows less than `backgroundSd` noise SDs of difference now
-// (so a bud merely missed by the segmentation has not gone).
+// A pixel has gone when it shows less than `backgroundSd` noise SDs of difference of
+// the outline's sign now (so a bud merely missed by the segmentation has not gone, and
+// a neighbour's halo of the other sign does not hide that it has).
 double departedArea(const CropReading& before, const std::vector<int>& attachedBefore,
                     const CropReading& now, double backgroundSd);
 

@@ -88,7 +88,8 @@ OccupancyModel OccupancyModel::train(const std::vector<TrainingExample>& data,
     }
     const double mean = s / n;
     m.mean_[static_cast<std::size_t>(i)] = mean;
-    m.scale_[static_cast<std::size_t>(i)] = std::max(1e-6, std::sqrt(std::max(0.0, s2 / n - mean * mean)));
+    m.scale_[static_cast<std::size_t>(i)] =
+        std::max(1e-6, std::sqrt(std::max(0.0, s2 / n - mean * mean)));
   }
   m.w_.assign(static_cast<std::size_t>(kClasses * kStride), 0.0);
   // Full-batch gradient descent with momentum on the mean negative log-likelihood plus

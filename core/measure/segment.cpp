@@ -1,8 +1,8 @@
 #include "core/measure/segment.h"
 
 #include <algorithm>
-#include <cstdint>
 #include <cmath>
+#include <cstdint>
 #include <numbers>
 #include <numeric>
 #include <opencv2/imgproc.hpp>
@@ -22,123 +22,140 @@ cv::Mat smoothedDifference(const cv::Mat& crop, const cv::Mat& background, doubl
   return diff;
 }
 
-// Fills holes: pixels not reachable from the border through background.
+// Fills holes: background pixels not reachable from the image border through
+// background (4-connected), by a flood from the border.
 void fillHoles(cv::Mat& mask) {
-  cv::Mat padded;
-  cv::copyMakeBorder(mask, padded, 1, 1, 1, 1, cv::BORDER_CONSTANT, 0);
-  cv::Mat flood = padded.clone();
-  cv::floodFill(flood, cv::Point(0, 0), 255);
-  cv::Mat holes;
-  cv::bitwise_not(flood, holes);
-  padded |= holes;
-  mask = padded(cv::Rect(1, 1, mask.cols, mask.rows)).clone();
-}
-
-// An outline with a gap of a few pixels (a rim cancelled by a neighbour's halo) fills
-// to a thin arc, not a cell. Objects that cover little of their bounding box are
-// closed with a wider disk inside that box and filled again; solid objects are left
-// alone so that neighbouring cells stay apart.
-void bridgeBrokenOutlines(cv::Mat& mask) {
-  cv::Mat labels, stats, centroids;
-  const int n = cv::connectedComponentsWithStats(mask, labels, stats, centroids, 8, CV_32S);
-  for (int i = 1; i < n; ++i) {
-    const int area = stats.at<int>(i, cv::CC_STAT_AREA);
-    const cv::Rect box(stats.at<int>(i, cv::CC_STAT_LEFT), stats.at<int>(i, cv::CC_STAT_TOP),
-                       stats.at<int>(i, cv::CC_STAT_WIDTH), stats.at<int>(i, cv::CC_STAT_HEIGHT));
-    if (box.area() < 30 || area >= 0.45 * box.area()) continue;
-    const cv::Rect grown = (box + cv::Size(8, 8) - cv::Point(4, 4)) & cv::Rect(0, 0, mask.cols, mask.rows);
-    cv::Mat arc = labels(grown) == i;
-    cv::morphologyEx(arc, arc, cv::MORPH_CLOSE,
-                     cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7}));
-    fillHoles(arc);
-    cv::Mat roi = mask(grown);
-    roi |= arc;
+  if (!mask.isContinuous()) mask = mask.clone();
+  const int W = mask.cols, H = mask.rows;
+  if (W < 3 || H < 3) return;
+  thread_local std::vector<uchar> reached;
+  thread_local std::vector<int> stack;
+  reached.assign(static_cast<std::size_t>(W) * static_cast<std::size_t>(H), 0);
+  stack.clear();
+  uchar* m = mask.data;
+  uchar* r = reached.data();
+  auto seed = [&](int i) {
+    if (!m[i] && !r[i]) {
+      r[i] = 1;
+      stack.push_back(i);
+    }
+  };
+  for (int x = 0; x < W; ++x) {
+    seed(x);
+    seed((H - 1) * W + x);
   }
+  for (int y = 1; y < H - 1; ++y) {
+    seed(y * W);
+    seed(y * W + W - 1);
+  }
+  while (!stack.empty()) {
+    const int i = stack.back();
+    stack.pop_back();
+    const int x = i % W;
+    if (x > 0) seed(i - 1);
+    if (x < W - 1) seed(i + 1);
+    if (i >= W) seed(i - W);
+    if (i < (H - 1) * W) seed(i + W);
+  }
+  const int n = W * H;
+  for (int i = 0; i < n; ++i)
+    if (!r[i]) m[i] = 255;
 }
 
 // Pixels of the outline sign: strong ones (> threshold SDs) and the weaker ones
 // (> half of it) connected to them, as in hysteresis edge linking (Canny 1986), so a
-// thin outline weakened by a neighbouring halo still closes; each object is then cut at
-// half its own contrast and its holes are filled.
+// thin outline weakened by a neighbouring halo still closes. Each object is then cut
+// at half its own contrast (half its 90th percentile; sizes then do not grow with
+// contrast over noise) and its holes are filled, unless the cut breaks a thin rim so
+// that it no longer encloses the cell; an object that still covers little of its
+// box (a rim with a gap) is closed with a wider disk. Objects are handled one by one
+// in their own boxes, which keeps the work proportional to what is in the crop.
 cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double threshold) {
-  cv::Mat signedDiff = polarity == 0 ? cv::abs(diff) : diff * static_cast<double>(polarity);
-  const cv::Mat strong = signedDiff > threshold * sd;
-  if (cv::countNonZero(strong) == 0) return cv::Mat(diff.size(), CV_8U, cv::Scalar(0));
-  cv::Mat mask = signedDiff > 0.5 * threshold * sd;
-  cv::Mat labels;
-  const int n = cv::connectedComponents(mask, labels, 8, CV_32S);
-  // A component needs several strong pixels: one noise excursion lights up only a few.
+  const float strongLevel = static_cast<float>(threshold * sd);
+  const float weakLevel = static_cast<float>(0.5 * threshold * sd);
+  cv::Mat value(diff.size(), CV_32F), weak(diff.size(), CV_8U);
+  bool anyStrong = false;
+  for (int y = 0; y < diff.rows; ++y) {
+    const float* d = diff.ptr<float>(y);
+    float* v = value.ptr<float>(y);
+    uchar* w = weak.ptr<uchar>(y);
+    for (int x = 0; x < diff.cols; ++x) {
+      v[x] = polarity == 0 ? std::abs(d[x]) : static_cast<float>(polarity) * d[x];
+      w[x] = v[x] > weakLevel ? 255 : 0;
+      anyStrong = anyStrong || v[x] > strongLevel;
+    }
+  }
+  cv::Mat out(diff.size(), CV_8U, cv::Scalar(0));
+  if (!anyStrong) return out;
+  cv::Mat labels, stats, centroids;
+  const int n = cv::connectedComponentsWithStats(weak, labels, stats, centroids, 8, CV_32S);
   std::vector<int> strongCount(static_cast<std::size_t>(n), 0);
-  for (int y = 0; y < labels.rows; ++y) {
+  std::vector<float> peak(static_cast<std::size_t>(n), 0.f);
+  for (int y = 0; y < diff.rows; ++y) {
     const int* l = labels.ptr<int>(y);
-    const uchar* s = strong.ptr<uchar>(y);
-    for (int x = 0; x < labels.cols; ++x)
-      if (s[x]) ++strongCount[static_cast<std::size_t>(l[x])];
-  }
-  strongCount[0] = 0;
-  // Each object's edge at half its own contrast (the 90th percentile of its signal), so
-  // sizes do not grow with contrast over noise; never below the hysteresis level.
-  std::vector<std::vector<float>> values(static_cast<std::size_t>(n));
-  for (int y = 0; y < labels.rows; ++y) {
-    const int* l = labels.ptr<int>(y);
-    const float* v = signedDiff.ptr<float>(y);
-    for (int x = 0; x < labels.cols; ++x)
-      if (l[x] && strongCount[static_cast<std::size_t>(l[x])] >= kMinStrong)
-        values[static_cast<std::size_t>(l[x])].push_back(v[x]);
-  }
-  std::vector<float> level(static_cast<std::size_t>(n), std::numeric_limits<float>::max());
-  for (int i = 1; i < n; ++i) {
-    auto& v = values[static_cast<std::size_t>(i)];
-    if (v.empty()) continue;
-    auto at = v.begin() + static_cast<std::ptrdiff_t>(0.9 * static_cast<double>(v.size() - 1));
-    std::nth_element(v.begin(), at, v.end());
-    level[static_cast<std::size_t>(i)] =
-        std::max(static_cast<float>(0.5 * threshold * sd), 0.5f * *at);
-  }
-  cv::Mat half(mask.size(), CV_8U, cv::Scalar(0));
-  for (int y = 0; y < labels.rows; ++y) {
-    const int* l = labels.ptr<int>(y);
-    const float* v = signedDiff.ptr<float>(y);
-    uchar* m = mask.ptr<uchar>(y);
-    uchar* h = half.ptr<uchar>(y);
-    for (int x = 0; x < labels.cols; ++x) {
-      const bool kept = l[x] && strongCount[static_cast<std::size_t>(l[x])] >= kMinStrong;
-      m[x] = kept ? 255 : 0;
-      h[x] = kept && v[x] > level[static_cast<std::size_t>(l[x])] ? 255 : 0;
+    const float* v = value.ptr<float>(y);
+    for (int x = 0; x < diff.cols; ++x) {
+      if (!l[x]) continue;
+      const auto i = static_cast<std::size_t>(l[x]);
+      if (v[x] > strongLevel) ++strongCount[i];
+      peak[i] = std::max(peak[i], v[x]);
     }
   }
-  // Close gaps of a pixel in an outline before filling it.
   const cv::Mat disk3 = cv::getStructuringElement(cv::MORPH_ELLIPSE, {3, 3});
-  cv::morphologyEx(mask, mask, cv::MORPH_CLOSE, disk3);
-  cv::morphologyEx(half, half, cv::MORPH_CLOSE, disk3);
-  fillHoles(mask);
-  fillHoles(half);
-  // A thin outline (a rim) may break at half contrast and no longer enclose the cell:
-  // there the full-depth outline is kept.
-  cv::Mat objects;
-  const int m = cv::connectedComponents(mask, objects, 8, CV_32S);
-  std::vector<int> full(static_cast<std::size_t>(m), 0), cut(static_cast<std::size_t>(m), 0);
-  for (int y = 0; y < objects.rows; ++y) {
-    const int* o = objects.ptr<int>(y);
-    const uchar* h = half.ptr<uchar>(y);
-    for (int x = 0; x < objects.cols; ++x) {
-      ++full[static_cast<std::size_t>(o[x])];
-      if (h[x]) ++cut[static_cast<std::size_t>(o[x])];
+  const cv::Mat disk7 = cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7});
+  const cv::Rect frame(0, 0, diff.cols, diff.rows);
+  std::vector<int> histogram(32);
+  for (int i = 1; i < n; ++i) {
+    const auto ui = static_cast<std::size_t>(i);
+    if (strongCount[ui] < kMinStrong) continue;
+    const cv::Rect tight(stats.at<int>(i, cv::CC_STAT_LEFT), stats.at<int>(i, cv::CC_STAT_TOP),
+                         stats.at<int>(i, cv::CC_STAT_WIDTH), stats.at<int>(i, cv::CC_STAT_HEIGHT));
+    const cv::Rect box = (tight - cv::Point(4, 4) + cv::Size(8, 8)) & frame;
+    // 90th percentile of the object's signal from a histogram between weak and peak.
+    std::fill(histogram.begin(), histogram.end(), 0);
+    const float span = std::max(1e-9f, peak[ui] - weakLevel);
+    int count = 0;
+    for (int y = tight.y; y < tight.y + tight.height; ++y) {
+      const int* l = labels.ptr<int>(y);
+      const float* v = value.ptr<float>(y);
+      for (int x = tight.x; x < tight.x + tight.width; ++x)
+        if (l[x] == i) {
+          ++histogram[std::min(31, static_cast<int>(31.999f * (v[x] - weakLevel) / span))];
+          ++count;
+        }
     }
-  }
-  for (int y = 0; y < objects.rows; ++y) {
-    const int* o = objects.ptr<int>(y);
-    const uchar* h = half.ptr<uchar>(y);
-    uchar* k = mask.ptr<uchar>(y);
-    for (int x = 0; x < objects.cols; ++x) {
-      const auto i = static_cast<std::size_t>(o[x]);
-      if (i && 2 * cut[i] >= full[i]) k[x] = h[x];
+    int below = 0, bin = 0;
+    while (bin < 31 && below + histogram[static_cast<std::size_t>(bin)] < 0.9 * count)
+      below += histogram[static_cast<std::size_t>(bin++)];
+    const float p90 = weakLevel + span * (static_cast<float>(bin) + 0.5f) / 32.f;
+    const float level = std::max(weakLevel, 0.5f * p90);
+    cv::Mat full(box.size(), CV_8U, cv::Scalar(0)), half(box.size(), CV_8U, cv::Scalar(0));
+    for (int y = 0; y < box.height; ++y) {
+      const int* l = labels.ptr<int>(y + box.y) + box.x;
+      const float* v = value.ptr<float>(y + box.y) + box.x;
+      uchar* f = full.ptr<uchar>(y);
+      uchar* h = half.ptr<uchar>(y);
+      for (int x = 0; x < box.width; ++x)
+        if (l[x] == i) {
+          f[x] = 255;
+          h[x] = v[x] > level ? 255 : 0;
+        }
     }
+    cv::morphologyEx(full, full, cv::MORPH_CLOSE, disk3);
+    cv::morphologyEx(half, half, cv::MORPH_CLOSE, disk3);
+    fillHoles(full);
+    fillHoles(half);
+    cv::Mat& object = 2 * cv::countNonZero(half) >= cv::countNonZero(full) ? half : full;
+    const int area = cv::countNonZero(object);
+    if (box.area() >= 30 && area < 0.45 * tight.area()) {
+      cv::morphologyEx(object, object, cv::MORPH_CLOSE, disk7);
+      fillHoles(object);
+    }
+    cv::morphologyEx(object, object, cv::MORPH_OPEN, disk3);
+    cv::Mat target = out(box);
+    target |= object;
   }
-  bridgeBrokenOutlines(mask);
-  cv::morphologyEx(mask, mask, cv::MORPH_OPEN,
-                   cv::getStructuringElement(cv::MORPH_ELLIPSE, {3, 3}));
-  return mask;
+  return out;
 }
 
 struct Peak {
@@ -242,8 +259,7 @@ void floodFromSeeds(const cv::Mat& dist, const cv::Mat& mask, const cv::Mat& com
 }
 
 // Labels the mask's cells (1..n) in `labels` (CV_32S), splitting touching ones.
-int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels) {
-  cv::Mat dist;
+int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels, cv::Mat& dist) {
   cv::distanceTransform(mask, dist, cv::DIST_L2, 3);
   // Peaks: maxima of the distance map in a 5x5 window; a plateau of equal maxima is
   // one peak (its first pixel).
@@ -358,13 +374,13 @@ struct Moments {
 // A bud still joined to the mother without a neck the watershed can cut: the part of
 // her region beyond her inscribed circle (plus a margin for a slightly oval mother).
 // When it is large enough it becomes the bud and the mother keeps the rest.
-void splitProtrusion(cv::Mat& motherMask, const cv::Mat& diff, double sd, const CropGeometry& g,
-                     const SegmentParams& params, CropReading& out) {
-  cv::Mat dist;
-  cv::distanceTransform(motherMask, dist, cv::DIST_L2, 3);
+void splitProtrusion(cv::Mat& motherMask, const cv::Mat& dist, const cv::Mat& diff, double sd,
+                     const CropGeometry& g, const SegmentParams& params, CropReading& out) {
+  // Her inscribed circle: the deepest point of the foreground's distance map inside her
+  // (a bud joined at a neck does not reach that deep).
   double radius = 0;
   cv::Point centre;
-  cv::minMaxLoc(dist, nullptr, &radius, nullptr, &centre);
+  cv::minMaxLoc(dist, nullptr, &radius, nullptr, &centre, motherMask);
   if (radius < 2) return;
   const double margin = std::max(1.5, 0.15 * radius);
   const double reach = radius + margin;
@@ -429,42 +445,31 @@ cv::Mat cellIndexImage(const cv::Mat& labels, const std::vector<int>& cellOfLabe
   return out;
 }
 
-// Bounding box (grown by `margin`) of the outline-sign components that hold enough
-// strong pixels; empty when there are none.
+// Bounding box (grown by `margin`) of the strong outline-sign pixels that have at least
+// two strong 4-neighbours (a lone noise excursion rarely has); empty when none.
 cv::Rect foregroundBox(const cv::Mat& diff, double sd, const SegmentParams& params, int margin) {
-  const double strongLevel = params.threshold * sd, weakLevel = 0.5 * params.threshold * sd;
-  cv::Mat weak(diff.size(), CV_8U, cv::Scalar(0));
-  bool anyStrong = false;
-  for (int y = 0; y < diff.rows; ++y) {
-    const float* d = diff.ptr<float>(y);
-    uchar* w = weak.ptr<uchar>(y);
-    for (int x = 0; x < diff.cols; ++x) {
-      const double v = params.polarity == 0 ? std::abs(d[x]) : params.polarity * d[x];
-      if (v > weakLevel) w[x] = v > strongLevel ? 2 : 1;
-      anyStrong = anyStrong || v > strongLevel;
+  const float strongLevel = static_cast<float>(params.threshold * sd);
+  const int W = diff.cols, H = diff.rows;
+  auto strong = [&](int x, int y) {
+    const float d = diff.at<float>(y, x);
+    return (params.polarity == 0 ? std::abs(d) : static_cast<float>(params.polarity) * d) >
+           strongLevel;
+  };
+  int x0 = W, y0 = H, x1 = -1, y1 = -1;
+  for (int y = 1; y < H - 1; ++y)
+    for (int x = 1; x < W - 1; ++x) {
+      if (!strong(x, y)) continue;
+      const int neighbours =
+          strong(x - 1, y) + strong(x + 1, y) + strong(x, y - 1) + strong(x, y + 1);
+      if (neighbours < 2) continue;
+      x0 = std::min(x0, x);
+      y0 = std::min(y0, y);
+      x1 = std::max(x1, x);
+      y1 = std::max(y1, y);
     }
-  }
-  if (!anyStrong) return {};
-  cv::Mat labels, stats, centroids;
-  const int n = cv::connectedComponentsWithStats(weak > 0, labels, stats, centroids, 8, CV_32S);
-  std::vector<int> strong(static_cast<std::size_t>(n), 0);
-  for (int y = 0; y < diff.rows; ++y) {
-    const int* l = labels.ptr<int>(y);
-    const uchar* w = weak.ptr<uchar>(y);
-    for (int x = 0; x < diff.cols; ++x)
-      if (w[x] == 2) ++strong[static_cast<std::size_t>(l[x])];
-  }
-  cv::Rect box;
-  for (int i = 1; i < n; ++i) {
-    if (strong[static_cast<std::size_t>(i)] < kMinStrong) continue;
-    const cv::Rect r(stats.at<int>(i, cv::CC_STAT_LEFT), stats.at<int>(i, cv::CC_STAT_TOP),
-                     stats.at<int>(i, cv::CC_STAT_WIDTH), stats.at<int>(i, cv::CC_STAT_HEIGHT));
-    box = box.area() ? (box | r) : r;
-  }
-  if (!box.area()) return {};
-  box -= cv::Point(margin, margin);
-  box += cv::Size(2 * margin, 2 * margin);
-  return box & cv::Rect(0, 0, diff.cols, diff.rows);
+  if (x1 < 0) return {};
+  const cv::Rect box(x0 - margin, y0 - margin, x1 - x0 + 1 + 2 * margin, y1 - y0 + 1 + 2 * margin);
+  return box & cv::Rect(0, 0, W, H);
 }
 
 }  // namespace
@@ -519,8 +524,8 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
     return out;
   }
 
-  cv::Mat labels;
-  const int n = splitCells(mask, params, labels);
+  cv::Mat labels, dist;
+  const int n = splitCells(mask, params, labels, dist);
   std::vector<Moments> mom(static_cast<std::size_t>(n + 1));
   for (int y = 0; y < labels.rows; ++y) {
     const int* l = labels.ptr<int>(y);
@@ -562,7 +567,7 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
     if (cellOfLabel[static_cast<std::size_t>(l)] == out.mother) motherLabel = l;
   cv::Mat motherMask = labels == motherLabel;
   const std::size_t cellsBefore = out.cells.size();
-  splitProtrusion(motherMask, diff, sd, geometry, params, out);
+  splitProtrusion(motherMask, dist, diff, sd, geometry, params, out);
   if (params.keepMask) {
     const int protrusion = out.cells.size() > cellsBefore ? static_cast<int>(cellsBefore) : -1;
     out.mask = cellIndexImage(labels, cellOfLabel, out.mother, motherMask, protrusion);
@@ -596,12 +601,63 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
 
 }  // namespace
 
+namespace {
+
+cv::Mat gradientMagnitude(const cv::Mat& image, double sigma) {
+  cv::Mat s, gx, gy, mag;
+  cv::GaussianBlur(image, s, cv::Size(0, 0), std::max(0.5, sigma));
+  cv::Sobel(s, gx, CV_32F, 1, 0, 3, 0.125);
+  cv::Sobel(s, gy, CV_32F, 0, 1, 3, 0.125);
+  cv::magnitude(gx, gy, mag);
+  return mag;
+}
+
+}  // namespace
+
+cv::Mat noiseMap(const cv::Mat& background, double noiseSd, double shiftPx, double smoothSigmaPx) {
+  cv::Mat g = gradientMagnitude(background, smoothSigmaPx);
+  cv::Mat var;
+  cv::multiply(g, g, var, shiftPx * shiftPx);
+  var += noiseSd * noiseSd;
+  cv::Mat out;
+  cv::sqrt(var, out);
+  return out;
+}
+
+double estimateShift(const std::vector<const cv::Mat*>& crops,
+                     const std::vector<const cv::Mat*>& backgrounds, double noiseSd,
+                     double smoothSigmaPx) {
+  double num = 0, den = 0;
+  for (std::size_t i = 0; i < crops.size() && i < backgrounds.size(); ++i) {
+    const cv::Mat d = smoothedDifference(*crops[i], *backgrounds[i], smoothSigmaPx);
+    const cv::Mat g = gradientMagnitude(*backgrounds[i], smoothSigmaPx);
+    for (int y = 0; y < d.rows; ++y) {
+      const float* dr = d.ptr<float>(y);
+      const float* gr = g.ptr<float>(y);
+      for (int x = 0; x < d.cols; ++x) {
+        const double g2 = static_cast<double>(gr[x]) * gr[x];
+        num += (static_cast<double>(dr[x]) * dr[x] - noiseSd * noiseSd) * g2;
+        den += g2 * g2;
+      }
+    }
+  }
+  return den > 0 ? std::clamp(std::sqrt(std::max(0.0, num / den)), 0.05, 1.5) : 0.3;
+}
+
 CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double noiseSd,
-                        const CropGeometry& geometry, const SegmentParams& params) {
+                        const CropGeometry& geometry, const SegmentParams& params,
+                        const cv::Mat* noiseMapPtr) {
   CropReading out;
-  const double sd = std::max(noiseSd, 1e-6);
-  const cv::Mat diff = smoothedDifference(crop, background, params.smoothSigmaPx);
-  if (params.keepMask) out.difference = diff / sd;
+  double sd = std::max(noiseSd, 1e-6);
+  cv::Mat diff = smoothedDifference(crop, background, params.smoothSigmaPx);
+  if (noiseMapPtr && noiseMapPtr->size() == diff.size()) {
+    // In units of the local SD from here on.
+    cv::divide(diff, *noiseMapPtr, diff);
+    sd = 1.0;
+  }
+  // Kept signed by the outline sign: a halo of the other sign reads as background.
+  if (params.keepMask)
+    out.difference = diff * ((params.polarity == 0 ? 1.0 : params.polarity) / sd);
   {
     // Segmentation-free presence: mean |difference| in the disk a mother would fill.
     const double r = std::max(1.0, params.motherRadiusPx);

@@ -12,6 +12,8 @@
 // is the mother and at most one the bud; the bud touches the mother.
 #include <opencv2/core.hpp>
 
+#include <vector>
+
 #include "core/measure/cells.h"
 
 namespace budledger::measure {
@@ -38,9 +40,23 @@ struct SegmentParams {
 };
 
 // `crop` and `background` are the same size (CV_32F); `noiseSd` is the SD of the
-// smoothed difference in empty regions (see estimateNoise).
+// smoothed difference in empty regions (see estimateNoise). `noiseMap`, when given,
+// is that SD per pixel (noiseMap()), and replaces `noiseSd`.
 CropReading segmentCrop(const cv::Mat& crop, const cv::Mat& background, double noiseSd,
-                        const CropGeometry& geometry, const SegmentParams& params);
+                        const CropGeometry& geometry, const SegmentParams& params,
+                        const cv::Mat* noiseMap = nullptr);
+
+// Where the background has strong edges (the posts), a registration error of a
+// fraction of a pixel leaves a residual of about that error times the edge's
+// gradient, which must not pass for a cell: the per-pixel SD is the camera noise
+// combined with that term, sqrt(noise^2 + (shift * |grad background|)^2).
+cv::Mat noiseMap(const cv::Mat& background, double noiseSd, double shiftPx, double smoothSigmaPx);
+
+// The typical misregistration (px) that explains residuals at the background's edges
+// in crops known to be empty: least squares of residual^2 - noise^2 on |grad|^2.
+double estimateShift(const std::vector<const cv::Mat*>& emptyCrops,
+                     const std::vector<const cv::Mat*>& backgrounds, double noiseSd,
+                     double smoothSigmaPx);
 
 // Filled outline areas of a crop under each sign, and their overlap.
 struct OutlineAreas {

@@ -21,8 +21,8 @@
 //
 // Invariants: state 0 is Empty, 1 Unbudded, 2..m+1 Budded age 1..m,
 // m+2..m+1+K Dead age 1..K, m+2+K Vacated, m+3+K just separated, m+4+K just
-// separated with a new bud; arcs out of each state sum to one; all rates are per frame, derived from per-minute rates and the frame
-// interval, so the model scales with it.
+// separated with a new bud; arcs out of each state sum to one; all rates are per frame, derived
+// from per-minute rates and the frame interval, so the model scales with it.
 #include <string>
 
 #include "core/propose/sparse_hmm.h"
@@ -53,11 +53,11 @@ struct CycleParams {
   double meanUnbuddedMin = 15;         // mean time from separation to next bud (G1)
   double meanBuddedExtraMin = 30;      // mean budded time beyond the minimum
   double immediateRebud = 0.3;         // share of separations with the next bud in the same frame
-  double arrivalPerMin = 1.0 / 600;    // an empty trap catches a new mother
-  double washoutPerMin = 1.0 / 6000;   // a live mother is flushed out
+  double arrivalPerMin = 1.0 / 2000;   // an empty trap catches a new mother
+  double washoutPerMin = 1.0 / 20000;  // a live mother is flushed out
   double deathPerMin = 1.0 / 3000;     // a live mother dies
   double deadGonePerMin = 1.0 / 3000;  // a dead mother is flushed out
-  double deathOnsetMin = 180;     // morphological signs of death develop over this time
+  double deathOnsetMin = 180;          // morphological signs of death develop over this time
   double arrivalBudded = 0.5;          // share of arriving mothers that carry a bud
   // Frame-0 state probabilities (the rest is spread over budded ages).
   double initialEmpty = 0.1;
@@ -77,7 +77,7 @@ class CycleModel {
 
   static constexpr int emptyState() { return 0; }
   static constexpr int unbuddedState() { return 1; }
-  int buddedState(int age) const { return 1 + age; }       // age 1..m
+  int buddedState(int age) const { return 1 + age; }         // age 1..m
   int deadState(int age = 1) const { return m_ + 1 + age; }  // age 1..K
   int vacatedState() const { return m_ + 2 + k_; }
   int separatedState() const { return m_ + 3 + k_; }     // unbudded, daughter just gone

@@ -168,6 +168,8 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
     for (int s = 0; s < S; ++s) {
       const int g = groupIndex(model.group(s));
       const int deadAge = model.deadAge(s);
+      // The mother's measurements: log density as read (valid) and as misread (flat).
+      double valid = 0, flatAll = 0;
       for (int j = 0; j < kMorphCount; ++j) {
         const auto jj = static_cast<std::size_t>(j);
         if (!zKnown[jj]) continue;
@@ -178,16 +180,8 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
                           params.morphDeadSigma[jj]);
         else if (model.isLive(s))
           dens = gaussian(z[jj], 0.0, params.morphLiveSigma[jj]);
-        row[s] += std::log((1 - eps) * dens + eps * flat);
-      }
-      double l = std::log((1 - eps) * groupOcc[g] + eps);
-      if (isKnown(f.deadLook)) l += std::log((1 - eps) * groupDead[g] + eps);
-      if (isKnown(f.departure) && model.stateGroupHasMother(s)) {
-        const bool sep = model.justSeparated(s);
-        const double dens =
-            sep ? gaussian(f.departure, params.departSeparatedMean, params.departSeparatedSigma)
-                : gaussian(f.departure, params.departOtherMean, params.departOtherSigma);
-        l += std::log((1 - eps) * dens + eps * ratioFlat);
+        valid += std::log(std::max(dens, 1e-300));
+        flatAll += std::log(flat);
       }
       if (isKnown(f.budRatio)) {
         const int age = model.budAge(s);
@@ -200,6 +194,23 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
           dens = gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
         else if (group == StateGroup::Dead)
           dens = gaussian(f.budRatio, params.budRatioDeadMean, params.budRatioDeadSigma);
+        valid += std::log(std::max(dens, 1e-300));
+        flatAll += std::log(ratioFlat);
+      }
+      if (model.stateGroupHasMother(s)) {
+        const double a = std::log1p(-params.misread) + valid;
+        const double b = std::log(params.misread) + flatAll;
+        row[s] += std::max(a, b) + std::log1p(std::exp(-std::abs(a - b)));
+      } else {
+        row[s] += flatAll;  // no mother: whatever was read is unrelated to the states
+      }
+      double l = std::log((1 - eps) * groupOcc[g] + eps);
+      if (isKnown(f.deadLook)) l += std::log((1 - eps) * groupDead[g] + eps);
+      if (isKnown(f.departure) && model.stateGroupHasMother(s)) {
+        const bool sep = model.justSeparated(s);
+        const double dens =
+            sep ? gaussian(f.departure, params.departSeparatedMean, params.departSeparatedSigma)
+                : gaussian(f.departure, params.departOtherMean, params.departOtherSigma);
         l += std::log((1 - eps) * dens + eps * ratioFlat);
       }
       row[s] += l;
@@ -265,8 +276,8 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
             sep ? gaussian(f.departure, params.departSeparatedMean, params.departSeparatedSigma)
                 : gaussian(f.departure, params.departOtherMean, params.departOtherSigma);
         const double flat = 1.0 / params.budRatioRange;
-        const double inlier = (1 - params.outlier) * dens /
-                              ((1 - params.outlier) * dens + params.outlier * flat);
+        const double inlier =
+            (1 - params.outlier) * dens / ((1 - params.outlier) * dens + params.outlier * flat);
         const std::size_t g = sep ? 0 : 1;
         departW_[g] += w * inlier;
         departSum_[g] += w * inlier * f.departure;
@@ -281,8 +292,8 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
             dead ? gaussian(f.budRatio, params.budRatioDeadMean, params.budRatioDeadSigma)
                  : gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
         const double flat = 1.0 / params.budRatioRange;
-        const double inlier = (1 - params.outlier) * dens /
-                              ((1 - params.outlier) * dens + params.outlier * flat);
+        const double inlier =
+            (1 - params.outlier) * dens / ((1 - params.outlier) * dens + params.outlier * flat);
         const std::size_t g = dead ? 1 : 0;
         otherW_[g] += w * inlier;
         otherSum_[g] += w * inlier * f.budRatio;
@@ -406,9 +417,9 @@ EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double 
     const auto jj = static_cast<std::size_t>(j);
     const double priorSigma = prior.morphLiveSigma[jj];
     if (liveW_[jj] > 1)
-      p.morphLiveSigma[jj] = std::max(1e-6, std::sqrt((liveSq_[jj] + priorWeight * priorSigma *
-                                                                         priorSigma) /
-                                                      (liveW_[jj] + priorWeight)));
+      p.morphLiveSigma[jj] =
+          std::max(1e-6, std::sqrt((liveSq_[jj] + priorWeight * priorSigma * priorSigma) /
+                                   (liveW_[jj] + priorWeight)));
     std::vector<double> mean(K), weight(K);
     double totalW = 0, sq = 0;
     for (std::size_t k = 0; k < K; ++k) {
@@ -426,7 +437,8 @@ EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double 
       count.push_back(1);
       while (level.size() > 1 && level[level.size() - 2] > level.back()) {
         const double w2 = lw.back() + lw[lw.size() - 2];
-        const double v = (level.back() * lw.back() + level[level.size() - 2] * lw[lw.size() - 2]) / w2;
+        const double v =
+            (level.back() * lw.back() + level[level.size() - 2] * lw[lw.size() - 2]) / w2;
         const std::size_t c = count.back() + count[count.size() - 2];
         level.pop_back();
         lw.pop_back();

@@ -49,7 +49,15 @@ struct EmissionParams {
   std::array<double, kMorphCount> morphLiveSigma{1, 1, 1};
   std::array<double, kMorphCount> morphDeadSigma{1, 1, 1};
   std::vector<std::array<double, kMorphCount>> morphDeadMean;  // K entries
-  double outlier = 0.01;   // robust mixture weight of every channel
+  double outlier = 0.01;  // robust mixture weight of every channel
+  // The mother's own measurements (morphology and bud ratio) come from one
+  // outline: when segmentation splits, merges or half-misses her they are all
+  // wrong at once. So they share one misreading component of this weight,
+  // uniform over every feature, instead of an outlier term each (which would
+  // count one bad outline several times and make "no mother" cheaper than a
+  // misread one). A starting value, not learned; presence is the occupancy
+  // channel's evidence, not theirs.
+  double misread = 0.05;
 
   // Common-practice starting values for a model with `buddedFrames` bud ages and
   // `deadFrames` dead ages.
@@ -76,8 +84,7 @@ MorphBaseline localBaseline(const TrapEvidence& evidence, const std::vector<floa
 // Starting values for the change after death, from the data: the dead frames are the
 // long tail of each feature's deviation from the live reference; the side of the longer
 // tail gives the direction and its far quantile the size, reached at the oldest age.
-void initialiseDeadMorphology(EmissionParams& params,
-                              const std::vector<TrapEvidence>& evidence,
+void initialiseDeadMorphology(EmissionParams& params, const std::vector<TrapEvidence>& evidence,
                               const std::vector<MorphBaseline>& baselines);
 
 // [frames x states] log-likelihoods of one trap's evidence.
@@ -100,7 +107,7 @@ class EmissionStatistics {
   std::array<std::array<double, 4>, kStateGroupCount> occ_{};
   std::array<std::array<double, 2>, kStateGroupCount> dead_{};
   std::vector<double> ratioW_, ratioSum_, ratioSq_;
-  std::array<double, 2> otherW_{}, otherSum_{}, otherSq_{};  // unbudded, dead
+  std::array<double, 2> otherW_{}, otherSum_{}, otherSq_{};     // unbudded, dead
   std::array<double, 2> departW_{}, departSum_{}, departSq_{};  // just separated, other
   std::array<double, kMorphCount> liveW_{}, liveSq_{};
   std::vector<std::array<double, kMorphCount>> deadW_, deadSum_, deadSq_;

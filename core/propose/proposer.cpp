@@ -214,8 +214,8 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
   EmissionParams emission = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
   const std::size_t n = evidence.size();
   const int iterations = std::max(0, options.emIterations);
-  int workers = options.threads > 0 ? options.threads
-                                    : static_cast<int>(std::thread::hardware_concurrency());
+  int workers =
+      options.threads > 0 ? options.threads : static_cast<int>(std::thread::hardware_concurrency());
   workers = std::max(1, workers);
 
   // Start: a mother is wherever the classifier sees anything; her live baseline and the
@@ -229,7 +229,7 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
     const auto ref = liveReference(evidence, pLive);
     for (std::size_t i = 0; i < n; ++i)
       baselines[i].assign(ref.begin(), ref.begin() + static_cast<std::ptrdiff_t>(
-                                                       std::min(ref.size(), evidence[i].size())));
+                                                         std::min(ref.size(), evidence[i].size())));
   };
   updateBaselines();
   for (int j = 0; j < kMorphCount; ++j) {
@@ -265,21 +265,22 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
       initialiseDeadMorphology(emission, evidence, baselines);
     }
     const bool positionWide = it < iterations - localRounds;
+    // Statistics per trap, merged in trap order, so the result does not depend on how
+    // the traps were shared among threads.
     std::vector<EmissionStatistics> stats(
-        static_cast<std::size_t>(workers),
-        EmissionStatistics(model.buddedFrames(), model.deadFrames()));
-    std::vector<TransitionCounts> counts(static_cast<std::size_t>(workers));
-    std::vector<double> logL(static_cast<std::size_t>(workers), 0.0);
-    parallelFor(n, workers, [&](std::size_t i, int w) {
+        n, EmissionStatistics(model.buddedFrames(), model.deadFrames()));
+    std::vector<TransitionCounts> counts(n);
+    std::vector<double> logL(n, 0.0);
+    parallelFor(n, workers, [&](std::size_t i, int) {
       const auto& ev = evidence[i];
       const int T = static_cast<int>(ev.size());
       if (T == 0) return;
       const auto em = emissionLogLikelihood(model, emission, ev, &baselines[i]);
       const auto post = model.hmm().forwardBackward(em, T);
       if (!std::isfinite(post.logLikelihood)) return;
-      stats[static_cast<std::size_t>(w)].add(model, emission, ev, post.state, &baselines[i]);
-      countTransitions(model, post, T, counts[static_cast<std::size_t>(w)]);
-      logL[static_cast<std::size_t>(w)] += post.logLikelihood;
+      stats[i].add(model, emission, ev, post.state, &baselines[i]);
+      countTransitions(model, post, T, counts[i]);
+      logL[i] = post.logLikelihood;
       if (!positionWide) return;
       const int S = model.stateCount();
       for (int t = 0; t < T; ++t) {
@@ -289,10 +290,11 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
         pLive[i][static_cast<std::size_t>(t)] = static_cast<float>(live);
       }
     });
-    for (int w = 1; w < workers; ++w) {
-      stats[0].merge(stats[static_cast<std::size_t>(w)]);
-      counts[0].merge(counts[static_cast<std::size_t>(w)]);
+    for (std::size_t i = 1; i < n; ++i) {
+      stats[0].merge(stats[i]);
+      counts[0].merge(counts[i]);
     }
+    if (n == 0) break;
     emission = stats[0].estimate(emissionPrior, options.emissionPriorWeight);
     cycle = reestimate(options.cycle, counts[0], options.transitionPriorWeight);
     model = CycleModel(cycle);

@@ -30,8 +30,8 @@ struct ReviewRules {
 struct ProposeOptions {
   CycleParams cycle;
   int emIterations = 6;
-  int localBaselineRounds = 2;      // last rounds compare a mother with her own live frames
-  double localWindowMin = 300;      // reach of that local baseline
+  int localBaselineRounds = 2;        // last rounds compare a mother with her own live frames
+  double localWindowMin = 300;        // reach of that local baseline
   double emissionPriorWeight = 200;   // pseudo-counts per confusion row
   double transitionPriorWeight = 20;  // pseudo-counts per duration estimate
   ReviewRules review;

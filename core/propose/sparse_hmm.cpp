@@ -12,12 +12,6 @@ namespace {
 
 constexpr double kNegInf = -std::numeric_limits<double>::infinity();
 
-double logAdd(double a, double b) {
-  if (a == kNegInf) return b;
-  if (b == kNegInf) return a;
-  return a > b ? a + std::log1p(std::exp(b - a)) : b + std::log1p(std::exp(a - b));
-}
-
 double safeLog(double p) { return p > 0 ? std::log(p) : kNegInf; }
 
 }  // namespace
@@ -95,54 +89,79 @@ std::vector<int> SparseHmm::viterbi(const std::vector<double>& emission, int fra
 
 SparseHmm::Posteriors SparseHmm::forwardBackward(const std::vector<double>& emission,
                                                  int frames) const {
+  // Scaled forward-backward (Rabiner 1989, sec. V.A): each frame's emissions are
+  // divided by their largest value and each forward vector is normalised, so the
+  // recursions run on plain probabilities; the log-likelihood is the sum of the logs
+  // of the scales.
   Posteriors out;
   if (frames <= 0) return out;
   const auto S = static_cast<std::size_t>(stateCount_);
   const auto T = static_cast<std::size_t>(frames);
   const std::size_t A = arcs_.size();
-  std::vector<double> alpha(T * S, kNegInf), beta(T * S, kNegInf);
-  for (std::size_t s = 0; s < S; ++s) alpha[s] = logInitial_[s] + emission[s];
-  for (std::size_t t = 1; t < T; ++t) {
+  std::vector<double> p(A);
+  for (std::size_t a = 0; a < A; ++a) p[a] = std::exp(arcs_[a].logp);
+  std::vector<double> e(T * S), alpha(T * S, 0.0), beta(T * S, 0.0), scale(T, 0.0);
+  double logZ = 0;
+  for (std::size_t t = 0; t < T; ++t) {
+    const double* l = &emission[t * S];
+    const double top = *std::max_element(l, l + S);
+    if (!std::isfinite(top)) {
+      out.logLikelihood = kNegInf;
+      out.state.assign(T * S, 0.0);
+      out.arc.assign(T * A, 0.0);
+      return out;
+    }
+    logZ += top;
+    for (std::size_t s = 0; s < S; ++s) e[t * S + s] = std::exp(l[s] - top);
+  }
+  auto normalise = [&](std::size_t t) {
+    double sum = 0;
+    for (std::size_t s = 0; s < S; ++s) sum += alpha[t * S + s];
+    scale[t] = sum;
+    if (sum > 0)
+      for (std::size_t s = 0; s < S; ++s) alpha[t * S + s] /= sum;
+    return sum > 0;
+  };
+  for (std::size_t s = 0; s < S; ++s)
+    alpha[s] = (std::isfinite(logInitial_[s]) ? std::exp(logInitial_[s]) : 0.0) * e[s];
+  bool possible = normalise(0);
+  for (std::size_t t = 1; t < T && possible; ++t) {
     const double* prev = &alpha[(t - 1) * S];
     double* cur = &alpha[t * S];
-    for (std::size_t s = 0; s < S; ++s) {
-      double acc = kNegInf;
-      for (int a : incoming_[s]) {
-        const Arc& arc = arcs_[static_cast<std::size_t>(a)];
-        acc = logAdd(acc, prev[static_cast<std::size_t>(arc.from)] + arc.logp);
-      }
-      cur[s] = acc + emission[t * S + s];
-    }
+    for (std::size_t a = 0; a < A; ++a)
+      cur[static_cast<std::size_t>(arcs_[a].to)] +=
+          prev[static_cast<std::size_t>(arcs_[a].from)] * p[a];
+    for (std::size_t s = 0; s < S; ++s) cur[s] *= e[t * S + s];
+    possible = normalise(t);
   }
-  for (std::size_t s = 0; s < S; ++s) beta[(T - 1) * S + s] = 0;
-  for (std::size_t t = T - 1; t-- > 0;) {
-    const double* nextBeta = &beta[(t + 1) * S];
-    const double* nextEmission = &emission[(t + 1) * S];
-    double* cur = &beta[t * S];
-    for (std::size_t s = 0; s < S; ++s) {
-      double acc = kNegInf;
-      for (int a : outgoing_[s]) {
-        const Arc& arc = arcs_[static_cast<std::size_t>(a)];
-        const auto to = static_cast<std::size_t>(arc.to);
-        acc = logAdd(acc, arc.logp + nextEmission[to] + nextBeta[to]);
-      }
-      cur[s] = acc;
-    }
-  }
-  double logZ = kNegInf;
-  for (std::size_t s = 0; s < S; ++s) logZ = logAdd(logZ, alpha[(T - 1) * S + s]);
-  out.logLikelihood = logZ;
   out.state.assign(T * S, 0.0);
   out.arc.assign(T * A, 0.0);
-  if (logZ == kNegInf) return out;  // evidence impossible under the model: no posteriors
-  for (std::size_t i = 0; i < T * S; ++i) out.state[i] = std::exp(alpha[i] + beta[i] - logZ);
-  for (std::size_t t = 1; t < T; ++t) {
+  if (!possible) {
+    out.logLikelihood = kNegInf;  // evidence impossible under the model: no posteriors
+    return out;
+  }
+  for (std::size_t t = 0; t < T; ++t) logZ += std::log(scale[t]);
+  out.logLikelihood = logZ;
+  for (std::size_t s = 0; s < S; ++s) beta[(T - 1) * S + s] = 1.0;
+  for (std::size_t t = T - 1; t-- > 0;) {
+    const double* nb = &beta[(t + 1) * S];
+    const double* ne = &e[(t + 1) * S];
+    double* cur = &beta[t * S];
     for (std::size_t a = 0; a < A; ++a) {
-      const Arc& arc = arcs_[a];
-      const auto from = static_cast<std::size_t>(arc.from);
-      const auto to = static_cast<std::size_t>(arc.to);
-      out.arc[t * A + a] = std::exp(alpha[(t - 1) * S + from] + arc.logp + emission[t * S + to] +
-                                    beta[t * S + to] - logZ);
+      const auto to = static_cast<std::size_t>(arcs_[a].to);
+      cur[static_cast<std::size_t>(arcs_[a].from)] += p[a] * ne[to] * nb[to];
+    }
+    const double inv = 1.0 / scale[t + 1];
+    for (std::size_t s = 0; s < S; ++s) cur[s] *= inv;
+  }
+  for (std::size_t i = 0; i < T * S; ++i) out.state[i] = alpha[i] * beta[i];
+  for (std::size_t t = 1; t < T; ++t) {
+    const double inv = 1.0 / scale[t];
+    for (std::size_t a = 0; a < A; ++a) {
+      const auto from = static_cast<std::size_t>(arcs_[a].from);
+      const auto to = static_cast<std::size_t>(arcs_[a].to);
+      out.arc[t * A + a] =
+          alpha[(t - 1) * S + from] * p[a] * e[t * S + to] * beta[t * S + to] * inv;
     }
   }
   return out;

@@ -143,10 +143,15 @@ TEST(Score, MissingPositionCountsAsMissed) {
   Truth truth;
   truth.positions.push_back(
       onePosition({{0, 0, 20, EventKind::Separation}}, {{0, 0, 0, 99, 1, false}}));
-  const Score s = score(truth, {});
+  ScoreOptions strict;
+  strict.skipMissingPositions = false;
+  const Score s = score(truth, {}, strict);
   EXPECT_EQ(s.kind(EventKind::Separation).adds, 1);
   EXPECT_EQ(s.missing, 1);
   ASSERT_EQ(s.notes.size(), 1u);
+  const Score skipped = score(truth, {});
+  EXPECT_EQ(skipped.mothers, 0);
+  EXPECT_EQ(skipped.notes.size(), 1u);
 }
 
 }  // namespace

@@ -103,6 +103,31 @@ TEST(EdgeCases, MissedFramesKeepTheMother) {
   expectSeparationsNear(o, s.separations, 1);
 }
 
+// The pattern behind split records on simulated stacks: the classifier still sees a
+// mother, but her outline is read wrongly (a third of her area, odd contrast and bud
+// ratio) for two frames. One bad outline must not cost more than a washout and a new
+// arrival, or every misread frame splits her record.
+TEST(EdgeCases, MisreadMotherIsNotWashedOut) {
+  Script s;
+  s.cycles(5);
+  const std::size_t misread = s.ev.size() + 1;
+  s.cycles(5);
+  for (std::size_t t = 0; t < s.ev.size(); ++t) {
+    // Three morphology readings, steady with a little jitter (cf. features.h).
+    const double j = 0.02 * static_cast<double>(t % 5);
+    s.ev[t].morph = {1.0 + j, 0.5 - j, 2.8 + j};
+  }
+  for (std::size_t t = misread; t < misread + 2; ++t) {
+    s.ev[t].morph = {3.5, 2.5, 1.7};
+    s.ev[t].budRatio = 0.9;
+  }
+  const auto o = decode(s.ev);
+  EXPECT_EQ(o.count(EventKind::Washout), 0);
+  EXPECT_EQ(o.count(EventKind::Arrival), 0);
+  ASSERT_EQ(o.lineage.tenures.size(), 1u);
+  EXPECT_NEAR(o.lineage.tenures[0].divisions, 10, 1);
+}
+
 TEST(EdgeCases, SeparationHiddenInAGapIsCalledLessSurely) {
   Script s;
   s.cycles(4);
@@ -161,6 +186,33 @@ TEST(EdgeCases, LingeringDaughterIsNotASecondDivision) {
   // The evidence shows detachment only when the daughter leaves: within the linger.
   expectSeparationsNear(o, s.separations, 2);
   EXPECT_EQ(o.count(EventKind::Bud), 6);
+}
+
+TEST(EdgeCases, DepartureTimesASeparationTheBudSizeCannot) {
+  // A neighbour hides the bud's growth (bud size unknown), but the daughter's departure
+  // is seen in the frame after each separation.
+  Script s;
+  for (int c = 0; c < 6; ++c) {
+    s.add(single(), 2);
+    for (int i = 0; i < 6; ++i) {
+      FrameEvidence f = budded(0.3);
+      f.budRatio = kMissing;
+      f.departure = 0.0;
+      s.add(f);
+    }
+    s.separations.push_back(static_cast<int>(s.ev.size()));
+    FrameEvidence gone = single();
+    gone.departure = 0.45;
+    s.add(gone);
+  }
+  s.add(single(), 3);
+  const auto o = decode(s.ev);
+  EXPECT_EQ(o.count(EventKind::Separation), 6);
+  std::vector<int> got;
+  for (const auto& e : o.calls.events)
+    if (e.kind == EventKind::Separation) got.push_back(e.frame);
+  ASSERT_EQ(got.size(), s.separations.size());
+  for (std::size_t i = 0; i < got.size(); ++i) EXPECT_EQ(got[i], s.separations[i]) << i;
 }
 
 TEST(EdgeCases, CrowdingHidesButDoesNotEndTheMother) {

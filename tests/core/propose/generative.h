@@ -2,7 +2,8 @@
 // Samples trap histories from the temporal model's own generative story: a
 // state path drawn from CycleModel's transitions and evidence drawn from
 // EmissionParams (classifier outputs that are right most of the time, bud
-// ratios around the age's mean, a dead-look score). Decoding such data
+// ratios around the state's mean, departures after separations, a dead-look
+// score). Decoding such data
 // checks the decoder and the EM, not the image analysis.
 #include <cmath>
 #include <cstdint>
@@ -117,11 +118,22 @@ inline Sampled sampleTrap(const CycleModel& model, const EmissionParams& ep, int
     const double peak = 0.55 + 0.44 * rng.uniform();
     for (int c = 0; c < 4; ++c) f.occupancy[static_cast<std::size_t>(c)] = (1 - peak) / 3;
     f.occupancy[static_cast<std::size_t>(shown)] = peak;
-    const int age = model.budAge(s);
-    if (trueClass == kBudded) {
-      const double mean = age > 0 ? ep.budRatioMean[static_cast<std::size_t>(age - 1)]
-                                  : 0.3 + 0.5 * rng.uniform();  // a lingering daughter
-      f.budRatio = std::max(0.01, mean + ep.budRatioSigma * rng.normal());
+    // Bud ratio and departure wherever there is a mother, as the emission model tells it.
+    if (model.stateGroupHasMother(s)) {
+      const int age = model.budAge(s);
+      double mean = ep.budRatioUnbuddedMean, sigma = ep.budRatioUnbuddedSigma;
+      if (age > 0) {
+        mean = ep.budRatioMean[static_cast<std::size_t>(age - 1)];
+        sigma = ep.budRatioSigma;
+      } else if (model.isDead(s)) {
+        mean = ep.budRatioDeadMean;
+        sigma = ep.budRatioDeadSigma;
+      }
+      f.budRatio = std::max(0.0, mean + sigma * rng.normal());
+      const bool sep = model.justSeparated(s);
+      f.departure =
+          std::max(0.0, (sep ? ep.departSeparatedMean : ep.departOtherMean) +
+                            (sep ? ep.departSeparatedSigma : ep.departOtherSigma) * rng.normal());
     }
     const bool deadLook = rng.uniform() < ep.deadLook[static_cast<std::size_t>(g)];
     f.deadLook = deadLook ? 0.6 + 0.39 * rng.uniform() : 0.01 + 0.3 * rng.uniform();

@@ -24,7 +24,7 @@ Experiment sampleExperiment(const CycleParams& truthCycle, int traps, int frames
   Experiment x;
   x.frames = frames;
   const CycleModel model(truthCycle);
-  const EmissionParams ep = EmissionParams::defaults(model.buddedFrames());
+  const EmissionParams ep = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
   Rng rng(seed);
   evaluate::TruthPosition p;
   p.name = "G";
@@ -61,7 +61,7 @@ evaluate::Score scoreCalls(const Experiment& x, const PositionCalls& calls) {
 // do on this evidence. Decoding from the defaults with re-estimation must come close.
 evaluate::Score oracleScore(const Experiment& x, const CycleParams& truthCycle) {
   const CycleModel model(truthCycle);
-  const EmissionParams ep = EmissionParams::defaults(model.buddedFrames());
+  const EmissionParams ep = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
   PositionCalls calls;
   for (std::size_t i = 0; i < x.ids.size(); ++i)
     calls.traps.push_back(decodeTrap(0, x.ids[i], model, ep, x.evidence[i], ReviewRules{}));

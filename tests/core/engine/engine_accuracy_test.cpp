@@ -1,0 +1,41 @@
+// Accuracy of the whole engine on simulated positions with seeds it was never tuned
+// or trained on (the shipped occupancy model came from seeds 101-104). The bounds
+// are regression guards at the level the engine reaches today, below the Engine
+// issue's targets; docs/validation.md reports the full numbers and the gap.
+#include <gtest/gtest.h>
+
+#include <iostream>
+
+#include "simulated.h"
+
+namespace budledger::engine {
+namespace {
+
+demo::Scenario small(std::uint64_t seed, demo::Difficulty d, int frames) {
+  demo::Scenario s = demo::presetScenario(seed, d);
+  s.frames = frames;
+  for (auto& g : s.groups) g.positions = 1;
+  s.groups.resize(1);
+  return s;
+}
+
+TEST(EngineAccuracy, NormalDifficultyFreshSeed) {
+  const auto s = testing::simulateAndScore(small(7301, demo::Difficulty::Normal, 120), "normal");
+  std::cerr << evaluate::toMarkdown(s);
+  EXPECT_GE(s.kind(EventKind::Separation).f1(), 0.80);
+  EXPECT_GE(s.kind(EventKind::Bud).f1(), 0.70);
+  EXPECT_LE(std::abs(s.bias), 0.5);
+  EXPECT_LE(s.mae, 1.0);
+  EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.9);
+}
+
+TEST(EngineAccuracy, EasyDifficultyFreshSeed) {
+  const auto s = testing::simulateAndScore(small(7302, demo::Difficulty::Easy, 120), "easy");
+  std::cerr << evaluate::toMarkdown(s);
+  EXPECT_GE(s.kind(EventKind::Separation).f1(), 0.85);
+  EXPECT_LE(std::abs(s.bias), 0.6);
+  EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.85);
+}
+
+}  // namespace
+}  // namespace budledger::engine

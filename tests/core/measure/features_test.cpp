@@ -1,0 +1,180 @@
+#include "core/measure/features.h"
+
+#include <gtest/gtest.h>
+
+#include "core/measure/background.h"
+#include "core/measure/occupancy.h"
+#include "core/measure/segment.h"
+#include "render.h"
+
+namespace budledger::measure {
+namespace {
+
+using testing::Optics;
+using testing::Scene;
+
+CropReading readScene(const Scene& s, std::uint64_t seed, bool keepMask = false) {
+  Optics o;
+  o.halo = 100;  // moderate; strong halos are a known weak look (segment_test.cpp)
+  const cv::Mat bg = testing::renderBackground(s, o);
+  SegmentParams p;
+  p.motherRadiusPx = 8;
+  p.polarity = -1;
+  p.keepMask = keepMask;
+  Scene empty = s;
+  empty.cells.clear();
+  const double noise = estimateNoise(testing::render(empty, o, seed + 99), bg, 1.0);
+  return segmentCrop(testing::render(s, o, seed), bg, noise, {s.cupX, s.cupY, 0.27}, p);
+}
+
+FeatureContext context() {
+  FeatureContext c;
+  c.motherRadiusPx = 8;
+  return c;
+}
+
+TEST(Features, BudAttachedAndDaughterApart) {
+  Scene withBud;
+  withBud.cells = {{32, 30, 8, 8}, {32, 18.5, 4.5, 4.5}};
+  const FrameFeatures b = computeFeatures(readScene(withBud, 1), context());
+  EXPECT_TRUE(b.hasMother);
+  EXPECT_GT(b.budRatio, 0.1);
+  Scene withDaughter;
+  withDaughter.cells = {{32, 30, 8, 8}, {32, 10, 6, 6}};
+  const FrameFeatures d = computeFeatures(readScene(withDaughter, 2), context());
+  EXPECT_TRUE(d.hasMother);
+  EXPECT_EQ(d.budRatio, 0.0);
+  EXPECT_LT(d.x[4], 3.0);  // but a neighbour is seen
+}
+
+TEST(Features, UnchangingNeighbourIsLodgedAndGrowingBudIsNot) {
+  // Twelve frames: a bud that grows, then a neighbour that stays the same size.
+  std::vector<CropReading> growing, lodged;
+  for (int t = 0; t < 12; ++t) {
+    Scene g;
+    const double r = 2.0 + 0.35 * t;
+    g.cells = {{32, 30, 8, 8}, {32, 30 - 8 - 0.6 * r, r, r}};
+    growing.push_back(readScene(g, 10 + static_cast<std::uint64_t>(t)));
+    Scene l;
+    l.cells = {{32, 30, 8, 8}, {32, 18, 4.5, 4.5}};  // touching
+    lodged.push_back(readScene(l, 40 + static_cast<std::uint64_t>(t)));
+  }
+  const auto none = lodgedNeighbours(growing, context(), 6);
+  for (const auto& f : none) EXPECT_TRUE(f.empty());
+  const auto all = lodgedNeighbours(lodged, context(), 6);
+  int flagged = 0;
+  for (const auto& f : all) flagged += !f.empty();
+  EXPECT_GE(flagged, 10);
+}
+
+TEST(Features, DepartureSeesADaughterLeaveNotAMissedBud) {
+  Scene before;
+  before.cells = {{32, 30, 8, 8}, {32, 17.5, 5, 5}};
+  Scene after;
+  after.cells = {{32, 30, 8, 8}};
+  const CropReading b = readScene(before, 5, true), a = readScene(after, 6, true);
+  std::vector<int> attached;
+  for (const auto& c : attachedCells(b, context())) attached.push_back(c.cell);
+  ASSERT_FALSE(attached.empty());
+  EXPECT_GT(departedArea(b, attached, a, 1.75), 0.2);
+  // The same bud still there: nothing departed.
+  const CropReading again = readScene(before, 7, true);
+  EXPECT_LT(departedArea(b, attached, again, 1.75), 0.05);
+}
+
+// Mothers as they are: sizes, seats and buds differ from trap to trap and frame to frame.
+Scene occupiedScene(int t, int k) {
+  Scene s;
+  const double r = 6.0 + 0.3 * ((t * 7 + k * 3) % 9);
+  const double dx = ((t * 5 + k) % 5) - 2.0, dy = ((t + 2 * k) % 3) - 1.0;
+  s.cells = {{32 + dx, 30 + dy, r, r * 0.95}};
+  if ((t + k) % 3)
+    s.cells.push_back({32 + dx, 30 + dy - r - 1.5 - 0.2 * k, 1.5 + 0.3 * k, 1.5 + 0.3 * k});
+  return s;
+}
+
+TEST(Background, EmptySamplesAreFoundAcrossTraps) {
+  // Ten traps, twelve samples each; traps 0-2 empty throughout, trap 3 empty for the first
+  // half, the others always hold a mother.
+  Optics o;
+  std::vector<std::vector<cv::Mat>> samples(10);
+  for (int t = 0; t < 10; ++t)
+    for (int k = 0; k < 12; ++k) {
+      Scene s;
+      const bool empty = t < 3 || (t == 3 && k < 6);
+      if (!empty) s = occupiedScene(t, k);
+      samples[static_cast<std::size_t>(t)].push_back(
+          normaliseCrop(testing::render(s, o, static_cast<std::uint64_t>(100 * t + k))));
+    }
+  BackgroundOptions bo;
+  bo.cupRadiusPx = 9;
+  const auto m = BackgroundModel::learn(samples, 32, 30, bo);
+  EXPECT_EQ(m.quality(), BackgroundModel::Quality::Good);
+  for (int t = 0; t < 3; ++t) EXPECT_EQ(m.empties()[static_cast<std::size_t>(t)].size(), 12u);
+  EXPECT_EQ(m.empties()[3].size(), 6u);
+  for (int t = 4; t < 10; ++t) EXPECT_TRUE(m.empties()[static_cast<std::size_t>(t)].empty()) << t;
+  EXPECT_EQ(m.source(0), BackgroundModel::Source::Own);
+  EXPECT_EQ(m.source(5), BackgroundModel::Source::Lattice);
+}
+
+TEST(Background, NoEmptyTrapIsSaidSo) {
+  Optics o;
+  std::vector<std::vector<cv::Mat>> samples(6);
+  for (int t = 0; t < 6; ++t)
+    for (int k = 0; k < 10; ++k) {
+      const Scene s = occupiedScene(t, k);
+      samples[static_cast<std::size_t>(t)].push_back(
+          normaliseCrop(testing::render(s, o, static_cast<std::uint64_t>(7 * t + k))));
+    }
+  BackgroundOptions bo;
+  bo.cupRadiusPx = 9;
+  const auto m = BackgroundModel::learn(samples, 32, 30, bo);
+  EXPECT_EQ(m.quality(), BackgroundModel::Quality::NoEmptyTrap);
+  EXPECT_EQ(m.source(0), BackgroundModel::Source::Fallback);
+}
+
+TEST(Occupancy, BuiltInModelLoadsAndGivesProbabilities) {
+  const auto m = OccupancyModel::builtIn();
+  FrameFeatures f;
+  const auto p = m.predict(f);
+  double sum = 0;
+  for (double v : p) {
+    EXPECT_GE(v, 0.0);
+    sum += v;
+  }
+  EXPECT_NEAR(sum, 1.0, 1e-9);
+}
+
+TEST(Occupancy, TrainingIsDeterministicAndLearnsSeparableClasses) {
+  // Three classes told apart by two features; the rest are noise.
+  std::vector<TrainingExample> data;
+  testing::Optics unused;
+  (void)unused;
+  std::uint64_t state = 12345;
+  auto next = [&] {
+    state = state * 6364136223846793005ULL + 1442695040888963407ULL;
+    return static_cast<double>(state >> 11) * 0x1.0p-53;
+  };
+  for (int i = 0; i < 600; ++i) {
+    TrainingExample e;
+    e.label = i % 3;
+    for (auto& v : e.x) v = next();
+    e.x[0] = e.label == 0 ? 0.0 : 1.0;                           // mother present
+    e.x[2] = e.label == 2 ? 0.3 + 0.2 * next() : 0.05 * next();  // bud ratio
+    data.push_back(e);
+  }
+  const auto a = OccupancyModel::train(data, {});
+  const auto b = OccupancyModel::train(data, {});
+  EXPECT_EQ(a.toJson(), b.toJson());
+  int correct = 0;
+  for (const auto& e : data) {
+    const auto p = a.predictThree(e.x);
+    correct += static_cast<int>(std::max_element(p.begin(), p.end()) - p.begin()) == e.label;
+  }
+  EXPECT_GT(correct, 590);
+  // Round trip through the file format.
+  EXPECT_EQ(OccupancyModel::fromJson(a.toJson()).toJson(), a.toJson());
+}
+
+}  // namespace
+}  // namespace budledger::measure
