@@ -7,5 +7,13 @@ here=$(cd "$(dirname "$0")" && pwd)
 rm -rf "$out"
 mkdir -p "$out"
 "$cli" simulate --scenario "$here/scenarios/demo.json" --out "$out/images"
-"$cli" analyze "$out"/images/*.tif --project "$out/demo.budledger"
+# One analyze per group, so the survival curves compare the groups the
+# simulator drew (positions.csv: position,group,file,...).
+for group in $(tail -n +2 "$out/images/positions.csv" | cut -d, -f2 | sort -u); do
+  files=()
+  while IFS=, read -r _ g file _; do
+    [[ $g == "$group" ]] && files+=("$out/images/$file")
+  done < <(tail -n +2 "$out/images/positions.csv")
+  "$cli" analyze "${files[@]}" --group "$group" --project "$out/demo.budledger"
+done
 "$cli" summary "$out/demo.budledger"

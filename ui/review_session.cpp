@@ -104,16 +104,23 @@ void ReviewSession::loadAll() {
       // An unreadable interval only costs the clock labels; frames still show.
     }
   }
-  if (auto run = project_->latestRun()) {
-    run_ = run->id;
-    // The engine's per-trap review flags live in the run's parameters.
+  // Each position's flags and measurements come from the last run that
+  // analysed it: a project grown by several analyses has one run per analysis.
+  for (const auto& run : project_->runs()) {
     try {
-      const auto params = nlohmann::json::parse(run->parametersJson);
-      if (params.contains("positions"))
-        for (const auto& p : params["positions"])
-          for (const auto& f : p.value("trap_flags", nlohmann::json::array()))
-            engineFlags_[{p.value("position", 0), f.value("trap", 0)}].push_back(
-                QString::fromStdString(f.value("reason", std::string())));
+      const auto params = nlohmann::json::parse(run.parametersJson);
+      if (!params.contains("positions")) {  // a run that names no positions covers them all
+        for (const auto& p : positions_) runOfPosition_[p.id] = run.id;
+        continue;
+      }
+      for (const auto& p : params["positions"]) {
+        const int position = p.value("position", 0);
+        runOfPosition_[position] = run.id;
+        std::erase_if(engineFlags_, [&](const auto& kv) { return kv.first.position == position; });
+        for (const auto& f : p.value("trap_flags", nlohmann::json::array()))
+          engineFlags_[{position, f.value("trap", 0)}].push_back(
+              QString::fromStdString(f.value("reason", std::string())));
+      }
     } catch (const std::exception&) {
       // Flags are a help for ordering the queue; a run without them is fine.
     }
@@ -239,7 +246,8 @@ const std::vector<store::MeasurementRecord>& ReviewSession::measurements(TrapId 
   auto it = measurements_.find(trap);
   if (it != measurements_.end()) return it->second;
   std::vector<store::MeasurementRecord> rows;
-  if (run_) rows = project_->measurements(*run_, trap.position, trap.trap);
+  if (auto run = runOfPosition_.find(trap.position); run != runOfPosition_.end())
+    rows = project_->measurements(run->second, trap.position, trap.trap);
   return measurements_.emplace(trap, std::move(rows)).first->second;
 }
 

@@ -111,7 +111,7 @@ class ReviewSession : public QObject {
   std::map<store::TenureKey, store::OutcomeOverride> overrides_;
   std::vector<store::SignOffRecord> signOffs_;
   std::optional<double> intervalMinutes_;
-  std::optional<std::int64_t> run_;
+  std::map<int, std::int64_t> runOfPosition_;  // position id → last run that analysed it
   std::map<TrapId, std::vector<QString>> engineFlags_;
   // Derived caches, filled on first use (hence mutable).
   mutable std::unordered_map<TrapId, std::vector<lineage::Tenure>> tenures_;

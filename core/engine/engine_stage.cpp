@@ -117,7 +117,11 @@ std::int64_t EngineStage::writeRun(store::Project& project) {
   run.engineVersion = kVersion;
   run.parametersJson = params.dump();
   run.inputDigest = sha256Hex(digests);
-  const std::int64_t id = project.addEngineRun(run, proposals);
+  // The run replaces the proposals of the positions it analysed and no
+  // others: a project grown by several analyses keeps every position's events.
+  store::RunRecording recording;
+  for (const auto& o : outcomes_) recording.positions.push_back(o.positionId);
+  const std::int64_t id = project.addEngineRun(run, proposals, recording);
   for (const auto& o : outcomes_) project.addMeasurements(id, o.result.measurements);
   return id;
 }

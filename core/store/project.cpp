@@ -261,6 +261,15 @@ std::optional<EngineRun> Project::latestRun() {
   return EngineRun{st.int64(0), st.text(1), st.text(2), st.text(3), st.text(4)};
 }
 
+std::vector<EngineRun> Project::runs() {
+  auto st = db_->prepare(
+      "SELECT id, started_utc, engine_version, parameters_json, input_digest FROM engine_runs "
+      "ORDER BY id");
+  std::vector<EngineRun> out;
+  while (st.step()) out.push_back({st.int64(0), st.text(1), st.text(2), st.text(3), st.text(4)});
+  return out;
+}
+
 void Project::addMeasurements(std::int64_t run, const std::vector<MeasurementRecord>& rows) {
   requireWritable();
   Transaction tx(*db_);

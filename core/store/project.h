@@ -123,6 +123,9 @@ class Project {
   std::int64_t addEngineRun(const EngineRun& run, const std::vector<Event>& proposals,
                             const RunRecording& recording = {});
   std::optional<EngineRun> latestRun();
+  // Every engine run, oldest first (a project grown by several analyses has
+  // one run per analysis, each covering its own positions).
+  std::vector<EngineRun> runs();
   // Measurements of a run, in one transaction (replacing that run's rows for
   // the same trap-frames).
   void addMeasurements(std::int64_t run, const std::vector<MeasurementRecord>& rows);

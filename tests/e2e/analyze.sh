@@ -75,6 +75,21 @@ no_project f.budledger
 run 0 "wrote 2 positions" "$cli" analyze sim/*.ome.tif --project sim.budledger
 run 0 "interval|position 1" "$cli" summary sim.budledger
 
+# A project grown by one analyze per position keeps every position's events:
+# the second run replaces the proposals of its own position only.
+"$cli" simulate --scenario "$scenario" --frames 40 --out sim40 >/dev/null 2>&1 || fail "simulate 40"
+stacks=(sim40/*.ome.tif)
+first=$(basename "${stacks[0]}" .ome.tif)
+count_rows() { grep -c "^$1," "$2"; }
+run 0 "wrote 1 position" "$cli" analyze "${stacks[0]}" --project grown.budledger --group a
+run 0 "wrote events.csv" "$cli" export grown.budledger --events events.csv
+before=$(count_rows "$first" events.csv)
+((before > 0)) || fail "no events proposed for $first in 40 frames"
+run 0 "wrote 1 position" "$cli" analyze "${stacks[1]}" --project grown.budledger --group b
+run 0 "wrote events.csv" "$cli" export grown.budledger --events events.csv
+after=$(count_rows "$first" events.csv)
+[[ $after == "$before" ]] || fail "$first had $before events, $after after analysing another position"
+
 if ((failures)); then
   echo "$failures check(s) failed"
   exit 1

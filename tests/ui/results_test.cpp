@@ -6,6 +6,7 @@
 #include <QtTest>
 
 #include "core/stats/kaplan_meier.h"
+#include "core/store/project.h"
 #include "demo_project.h"
 #include "ui/results_panel.h"
 #include "ui/review_session.h"
@@ -87,6 +88,42 @@ class ResultsTest : public QObject {
     QCOMPARE(curve.censored[0].x, 8.0);
     QVERIFY(curve.median.has_value());  // S falls below 0.5 at 10
     QCOMPARE(*curve.median, 10.0);
+  }
+
+  // A project grown by one analysis per position holds one engine run per
+  // analysis; each position's events, measurements and review flags come from
+  // the run that analysed it, not only from the newest run.
+  void eachPositionReadsTheRunThatAnalysedIt() {
+    const QString path = dir_.filePath(QStringLiteral("grown.budledger"));
+    {
+      auto project = store::Project::create(path.toStdString());
+      for (int i = 1; i <= 2; ++i) {
+        const int pid = project.addPosition({0, "pos" + std::to_string(i), "g", 20, 64, 64});
+        project.replaceTraps(pid, {{pid, 0, 0, 0, 32.0, 32.0, false}});
+        const std::string params = R"({"positions":[{"position":)" + std::to_string(pid) +
+                                   R"(,"trap_flags":[{"trap":0,"reason":"crowded-throughout"}]}]})";
+        const store::EngineRun run{0, store::utcNowIso(), "test", params, "none"};
+        store::RunRecording recording;
+        recording.positions = {pid};
+        const auto id = project.addEngineRun(
+            run, {{0, pid, 0, 5, EventKind::Bud, 0.9}, {0, pid, 0, 9, EventKind::Separation, 0.9}},
+            recording);
+        store::MeasurementRecord m;
+        m.position = pid;
+        m.frame = 5;
+        m.occupancy = Occupancy::Budded;
+        m.cellCount = 2;
+        project.addMeasurements(id, {m});
+      }
+    }
+    ui::ReviewSession session(path, store::Database::Access::ReadOnly);
+    for (int pid = 1; pid <= 2; ++pid) {
+      const ui::TrapId trap{pid, 0};
+      QCOMPARE(session.events(trap).size(), size_t(2));
+      QCOMPARE(session.measurements(trap).size(), size_t(1));
+      QCOMPARE(session.engineFlags(trap),
+               std::vector<QString>{QStringLiteral("crowded-throughout")});
+    }
   }
 
  private:

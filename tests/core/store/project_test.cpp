@@ -84,6 +84,24 @@ TEST_F(ProjectTest, ProposalConstraintRejectsBadConfidenceAtomically) {
   EXPECT_FALSE(p.latestRun().has_value());  // the run was rolled back whole
 }
 
+TEST_F(ProjectTest, RunsAreListedOldestFirst) {
+  auto p = Project::create(file("a.budledger"));
+  EXPECT_TRUE(p.runs().empty());
+  const int a = p.addPosition({0, "pos01", "", 10, 10, 10});
+  const int b = p.addPosition({0, "pos02", "", 10, 10, 10});
+  RunRecording onlyA, onlyB;
+  onlyA.positions = {a};
+  onlyB.positions = {b};
+  const auto first = p.addEngineRun({0, "", "0.1.0", "{}", "x"}, {}, onlyA);
+  const auto second = p.addEngineRun({0, "", "0.1.1", "{}", "y"}, {}, onlyB);
+  const auto runs = p.runs();
+  ASSERT_EQ(runs.size(), 2u);
+  EXPECT_EQ(runs[0].id, first);
+  EXPECT_EQ(runs[1].id, second);
+  EXPECT_EQ(runs[1].engineVersion, "0.1.1");
+  EXPECT_EQ(runs[0].inputDigest, "x");
+}
+
 TEST_F(ProjectTest, MeasurementsRoundTrip) {
   auto p = Project::create(file("a.budledger"));
   const int pos = p.addPosition({0, "pos01", "", 10, 10, 10});
