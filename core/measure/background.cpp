@@ -79,6 +79,53 @@ double emptyLimit(const std::vector<double>& knn, double floor, const Background
   return std::exp(0.5 * (v[split - 1] + v[split]));
 }
 
+// The translation d (pixels) that best carries the lattice background onto a trap's own
+// look: Lucas-Kanade (Lucas & Kanade 1981) on the trap's per-pixel median over its
+// samples. A found lattice is regular while fabricated traps sit a few tenths of a pixel
+// off it, and a lattice background that misses a trap's posts by that much leaves
+// residuals along their edges that read as small cells beside the mother. Cells in the
+// median (a mother seated throughout) are outliers, trimmed at 3 robust SD of the
+// residual each round; a shift the posts cannot pin down (too little structure) is zero.
+cv::Point2d latticeOffset(const cv::Mat& lattice, const cv::Mat& own) {
+  cv::Mat I, J;
+  cv::GaussianBlur(lattice, I, cv::Size(0, 0), 1.0);
+  cv::GaussianBlur(own, J, cv::Size(0, 0), 1.0);
+  cv::Point2d d(0, 0);
+  const int margin = 3;  // warped borders are replicated, not information
+  for (int round = 0; round < 6; ++round) {
+    cv::Mat W, gx, gy;
+    const cv::Mat M = (cv::Mat_<double>(2, 3) << 1, 0, d.x, 0, 1, d.y);
+    cv::warpAffine(I, W, M, I.size(), cv::INTER_LINEAR, cv::BORDER_REPLICATE);
+    cv::Sobel(W, gx, CV_32F, 1, 0, 3, 1.0 / 8);
+    cv::Sobel(W, gy, CV_32F, 0, 1, 3, 1.0 / 8);
+    std::vector<double> absR;
+    for (int y = margin; y < I.rows - margin; ++y)
+      for (int x = margin; x < I.cols - margin; ++x)
+        absR.push_back(std::abs(J.at<float>(y, x) - W.at<float>(y, x)));
+    const double cut = 3 * 1.4826 * std::max(1e-9, medianOf(absR));
+    double a = 0, b = 0, c = 0, u = 0, v = 0;
+    for (int y = margin; y < I.rows - margin; ++y)
+      for (int x = margin; x < I.cols - margin; ++x) {
+        const double r = J.at<float>(y, x) - W.at<float>(y, x);
+        if (std::abs(r) > cut) continue;
+        const double px = gx.at<float>(y, x), py = gy.at<float>(y, x);
+        a += px * px;
+        b += px * py;
+        c += py * py;
+        u += px * r;
+        v += py * r;
+      }
+    const double det = a * c - b * b;
+    if (!(det > 1e-12 * (a + c) * (a + c)) || a + c <= 0) return {0, 0};
+    // J ~ W - grad(W) . delta, so delta = -(G'G)^-1 G'r.
+    const cv::Point2d step(-(c * u - b * v) / det, -(a * v - b * u) / det);
+    d += step;
+    if (std::hypot(d.x, d.y) > 3) return {0, 0};  // not a sub-pixel misfit: leave it alone
+    if (std::hypot(step.x, step.y) < 0.01) break;
+  }
+  return d;
+}
+
 }  // namespace
 
 cv::Mat normaliseCrop(const cv::Mat& crop) {
@@ -125,6 +172,7 @@ BackgroundModel BackgroundModel::learn(const std::vector<std::vector<cv::Mat>>& 
   m.backgrounds_.resize(traps);
   m.sources_.assign(traps, Source::Fallback);
   m.empties_.assign(traps, {});
+  m.offsets_.assign(traps, {0, 0});
   cv::Size size;
   for (const auto& t : samples)
     if (!t.empty()) size = t.front().size();
@@ -211,6 +259,21 @@ BackgroundModel BackgroundModel::learn(const std::vector<std::vector<cv::Mat>>& 
       m.sources_[t] = Source::Own;
     } else {
       m.backgrounds_[t] = lattice;
+      if (!samples[t].empty()) {
+        std::vector<const cv::Mat*> own;
+        for (const auto& s : samples[t]) own.push_back(&s);
+        const cv::Point2d d = latticeOffset(lattice, pixelMedian(own));
+        m.offsets_[t] = d;
+        if (d != cv::Point2d(0, 0)) {
+          // Into a fresh image: the traps without a background of their own share the
+          // lattice's pixels.
+          const cv::Mat M = (cv::Mat_<double>(2, 3) << 1, 0, d.x, 0, 1, d.y);
+          cv::Mat carried;
+          cv::warpAffine(lattice, carried, M, lattice.size(), cv::INTER_LINEAR,
+                         cv::BORDER_REPLICATE);
+          m.backgrounds_[t] = carried;
+        }
+      }
       m.sources_[t] = m.quality_ == Quality::Good ? Source::Lattice : Source::Fallback;
     }
   }

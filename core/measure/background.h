@@ -8,7 +8,9 @@
 // and checked against the camera's noise floor (measured in the crops' borders
 // between consecutive samples). A trap with enough empty samples of
 // its own gets their median; the others get the median of all empty samples
-// (registered crops of identical traps line up).
+// (registered crops of identical traps line up), carried onto each such trap by
+// the sub-pixel shift that fits it best: a found lattice is regular, fabricated
+// traps are not quite.
 //
 // Crops are compared after dividing by their own medium level, so lamp
 // flicker and uneven illumination do not count as structure.
@@ -47,11 +49,15 @@ class BackgroundModel {
   double noiseFloor() const { return floor_; }
   // Samples judged empty, per trap (indexes into that trap's sample list).
   const std::vector<std::vector<int>>& empties() const { return empties_; }
+  // Shift (px) by which the lattice background was carried onto the trap; zero for
+  // traps with their own background.
+  cv::Point2d offset(std::size_t trap) const { return offsets_.at(trap); }
 
  private:
   std::vector<cv::Mat> backgrounds_;
   std::vector<Source> sources_;
   std::vector<std::vector<int>> empties_;
+  std::vector<cv::Point2d> offsets_;
   Quality quality_ = Quality::Good;
   int emptySamples_ = 0;
   double floor_ = 0;
