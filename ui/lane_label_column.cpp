@@ -57,10 +57,13 @@ void LaneLabelColumn::paintEvent(QPaintEvent* event) {
       const auto& tenures = session->tenures(trap);
       const int divisions = std::accumulate(tenures.begin(), tenures.end(), 0,
                                             [](int a, const auto& t) { return a + t.divisions; });
+      // One fact a line: the column is narrow, and a cut-off count misleads.
       p.drawText(QRectF(x, y, width() - x - 6, fm.height()), Qt::AlignLeft | Qt::AlignVCenter,
-                 tenures.size() > 1
-                     ? tr("%1 divisions, %2 mothers").arg(divisions).arg(tenures.size())
-                     : counted(divisions, tr("%1 division"), tr("%1 divisions")));
+                 counted(divisions, tr("%1 division"), tr("%1 divisions")));
+      y += fm.height();
+      if (tenures.size() > 1 && y + fm.height() <= band.bottom())
+        p.drawText(QRectF(x, y, width() - x - 6, fm.height()), Qt::AlignLeft | Qt::AlignVCenter,
+                   tr("%1 mothers").arg(tenures.size()));
     }
     p.fillRect(QRectF(0, band.bottom() + StripGeometry::kLaneGap / 2, width(), 1),
                QColor(0xDD, 0xDD, 0xDD));

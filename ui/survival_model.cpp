@@ -74,10 +74,11 @@ void SurvivalModel::recompute() {
   for (const auto& c : stats::kaplanMeierByGroup(cohort_)) curves_.push_back(fromStats(c));
   if (cohort_.groups().size() >= 2) {
     const stats::LogRankResult lr = stats::logRank(cohort_);
-    comparison_ = lr.defined ? tr("log-rank χ² %1, %2 df, p = %3")
+    // p first: in a narrow panel the end of the line is what gets elided.
+    comparison_ = lr.defined ? tr("log-rank p = %1 (χ² %2, %3 df)")
+                                   .arg(lr.pValue, 0, 'g', 3)
                                    .arg(lr.chiSquare, 0, 'f', 2)
                                    .arg(lr.df)
-                                   .arg(lr.pValue, 0, 'g', 3)
                              : tr("no log-rank test: %1").arg(QString::fromStdString(lr.problem));
   } else {
     comparison_ = tr("one group: nothing to compare");

@@ -100,7 +100,9 @@ void SurvivalPlot::render(QPainter& p, QSize size) const {
   const int left = static_cast<int>(plot.left());
   if (!note_.isEmpty()) {
     p.setPen(ink);
-    p.drawText(QRectF(left, 4, plot.width(), fm.height()), Qt::AlignLeft, note_);
+    const int room = std::max(0, size.width() - left - 4);
+    p.drawText(QRectF(left, 4, room, fm.height()), Qt::AlignLeft,
+               fm.elidedText(note_, Qt::ElideRight, room));
   }
   if (plot.width() < 40 || plot.height() < 40) {
     p.restore();
