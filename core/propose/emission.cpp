@@ -28,6 +28,21 @@ double deadLikelihood(double pDeadGivenGroup, double deadPrior, double look) {
 
 double clampProbability(double p) { return std::clamp(p, 1e-6, 1 - 1e-6); }
 
+// Mean and spread of weighted observations (weight w, sum, sum of squares),
+// shrunk towards a prior mean and spread held with `priorWeight`.
+struct Moments {
+  double mean;
+  double sigma;
+};
+Moments shrunkMoments(double w, double sum, double sq, double priorMean, double priorSigma,
+                      double priorWeight) {
+  const double wsum = w + priorWeight;
+  const double mean = (sum + priorWeight * priorMean) / wsum;
+  const double var =
+      (sq - 2 * mean * sum + w * mean * mean + priorWeight * priorSigma * priorSigma) / wsum;
+  return {mean, std::sqrt(std::max(0.0, var))};
+}
+
 }  // namespace
 
 EmissionParams EmissionParams::defaults(int m, int k) {
@@ -374,35 +389,25 @@ EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double 
   p.budRatioSigma = std::clamp(std::sqrt(std::max(0.0, s2)), 0.02, 0.5);
   // Bud ratio where no bud grows.
   {
-    const double mu[2] = {prior.budRatioUnbuddedMean, prior.budRatioDeadMean};
-    const double sg[2] = {prior.budRatioUnbuddedSigma, prior.budRatioDeadSigma};
-    double outMean[2], outSigma[2];
-    for (std::size_t g = 0; g < 2; ++g) {
-      const double wsum = otherW_[g] + priorWeight;
-      outMean[g] = (otherSum_[g] + priorWeight * mu[g]) / wsum;
-      const double var = (otherSq_[g] - 2 * outMean[g] * otherSum_[g] +
-                          otherW_[g] * outMean[g] * outMean[g] + priorWeight * sg[g] * sg[g]) /
-                         wsum;
-      outSigma[g] = std::sqrt(std::max(0.0, var));
-    }
-    p.budRatioUnbuddedMean = std::clamp(outMean[0], 0.0, 0.3);
-    p.budRatioUnbuddedSigma = std::clamp(outSigma[0], 0.03, 0.5);
-    p.budRatioDeadMean = std::clamp(outMean[1], 0.0, 1.0);
-    p.budRatioDeadSigma = std::clamp(outSigma[1], 0.05, 0.6);
-    const double dmu[2] = {prior.departSeparatedMean, prior.departOtherMean};
-    const double dsg[2] = {prior.departSeparatedSigma, prior.departOtherSigma};
-    for (std::size_t g = 0; g < 2; ++g) {
-      const double wsum = departW_[g] + priorWeight;
-      outMean[g] = (departSum_[g] + priorWeight * dmu[g]) / wsum;
-      const double var = (departSq_[g] - 2 * outMean[g] * departSum_[g] +
-                          departW_[g] * outMean[g] * outMean[g] + priorWeight * dsg[g] * dsg[g]) /
-                         wsum;
-      outSigma[g] = std::sqrt(std::max(0.0, var));
-    }
-    p.departSeparatedMean = std::clamp(outMean[0], 0.0, 2.0);
-    p.departSeparatedSigma = std::clamp(outSigma[0], 0.05, 1.0);
-    p.departOtherMean = std::clamp(outMean[1], 0.0, 0.5);
-    p.departOtherSigma = std::clamp(outSigma[1], 0.02, 0.5);
+    const Moments unbudded =
+        shrunkMoments(otherW_[0], otherSum_[0], otherSq_[0], prior.budRatioUnbuddedMean,
+                      prior.budRatioUnbuddedSigma, priorWeight);
+    const Moments dead =
+        shrunkMoments(otherW_[1], otherSum_[1], otherSq_[1], prior.budRatioDeadMean,
+                      prior.budRatioDeadSigma, priorWeight);
+    p.budRatioUnbuddedMean = std::clamp(unbudded.mean, 0.0, 0.3);
+    p.budRatioUnbuddedSigma = std::clamp(unbudded.sigma, 0.03, 0.5);
+    p.budRatioDeadMean = std::clamp(dead.mean, 0.0, 1.0);
+    p.budRatioDeadSigma = std::clamp(dead.sigma, 0.05, 0.6);
+    const Moments separated =
+        shrunkMoments(departW_[0], departSum_[0], departSq_[0], prior.departSeparatedMean,
+                      prior.departSeparatedSigma, priorWeight);
+    const Moments other = shrunkMoments(departW_[1], departSum_[1], departSq_[1],
+                                        prior.departOtherMean, prior.departOtherSigma, priorWeight);
+    p.departSeparatedMean = std::clamp(separated.mean, 0.0, 2.0);
+    p.departSeparatedSigma = std::clamp(separated.sigma, 0.05, 1.0);
+    p.departOtherMean = std::clamp(other.mean, 0.0, 0.5);
+    p.departOtherSigma = std::clamp(other.sigma, 0.02, 0.5);
   }
   // Bud ages must keep growing, or the chain could explain a shrinking bud.
   for (std::size_t k = 1; k < p.budRatioMean.size(); ++k)
