@@ -3,6 +3,7 @@
 #include <fmt/format.h>
 
 #include <map>
+#include <set>
 
 #include "core/lineage/lineage.h"
 #include "core/store/lifespans.h"
@@ -19,18 +20,26 @@ std::string projectSummary(store::Project& project) {
                        p.name, p.group, p.frameCount, p.width, p.height, traps.size());
   }
   if (positions.empty()) out += "  no positions yet\n";
-  const auto run = project.latestRun();
-  if (!run) {
+  const auto runs = project.runs();
+  if (runs.empty()) {
     out += "  no engine run yet\n";
     return out;
   }
-  const auto events = project.proposals(run->id);
-  std::map<EventKind, int> byKind;
-  for (const auto& e : events) ++byKind[e.kind];
-  out += fmt::format("  engine run {} (engine {}): {} proposals", run->id, run->engineVersion,
-                     events.size());
-  for (EventKind k : kAllEventKinds) out += fmt::format(", {} {}", byKind[k], toString(k));
-  out += "\n";
+  // One line a run: a project grown by several analyses has one run each.
+  for (const auto& run : runs) {
+    const auto events = project.proposals(run.id);
+    std::map<EventKind, int> byKind;
+    std::set<int> covered;
+    for (const auto& e : events) {
+      ++byKind[e.kind];
+      covered.insert(e.position);
+    }
+    out += fmt::format("  engine run {} (engine {}, {} position{}): {} proposals", run.id,
+                       run.engineVersion, covered.size(), covered.size() == 1 ? "" : "s",
+                       events.size());
+    for (EventKind k : kAllEventKinds) out += fmt::format(", {} {}", byKind[k], toString(k));
+    out += "\n";
+  }
   // Lifespans as they stand after the journal (every position's latest run
   // and the decisions people took), not the latest run's proposals alone.
   std::map<store::EventStatus, int> byStatus;
