@@ -28,6 +28,20 @@ double deadLikelihood(double pDeadGivenGroup, double deadPrior, double look) {
 
 double clampProbability(double p) { return std::clamp(p, 1e-6, 1 - 1e-6); }
 
+// Share of a reading the Gaussian (density) explains against the flat outlier
+// component; EM weighs each reading's contribution to the moments by it.
+double inlierShare(double density, const EmissionParams& params) {
+  const double flat = 1.0 / params.budRatioRange;
+  return (1 - params.outlier) * density / ((1 - params.outlier) * density + params.outlier * flat);
+}
+
+// Adds a reading x with weight to weighted moment sums.
+void addReading(double& weightSum, double& sum, double& squares, double weight, double x) {
+  weightSum += weight;
+  sum += weight * x;
+  squares += weight * x * x;
+}
+
 // Mean and spread of weighted observations (weight w, sum, sum of squares),
 // shrunk towards a prior mean and spread held with `priorWeight`.
 struct Moments {
@@ -290,13 +304,9 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
         const double dens =
             sep ? gaussian(f.departure, params.departSeparatedMean, params.departSeparatedSigma)
                 : gaussian(f.departure, params.departOtherMean, params.departOtherSigma);
-        const double flat = 1.0 / params.budRatioRange;
-        const double inlier =
-            (1 - params.outlier) * dens / ((1 - params.outlier) * dens + params.outlier * flat);
+        const double inlier = inlierShare(dens, params);
         const std::size_t g = sep ? 0 : 1;
-        departW_[g] += w * inlier;
-        departSum_[g] += w * inlier * f.departure;
-        departSq_[g] += w * inlier * f.departure * f.departure;
+        addReading(departW_[g], departSum_[g], departSq_[g], w * inlier, f.departure);
       }
       const int age = model.budAge(s);
       const StateGroup group = model.group(s);
@@ -306,24 +316,16 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
         const double dens =
             dead ? gaussian(f.budRatio, params.budRatioDeadMean, params.budRatioDeadSigma)
                  : gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
-        const double flat = 1.0 / params.budRatioRange;
-        const double inlier =
-            (1 - params.outlier) * dens / ((1 - params.outlier) * dens + params.outlier * flat);
+        const double inlier = inlierShare(dens, params);
         const std::size_t g = dead ? 1 : 0;
-        otherW_[g] += w * inlier;
-        otherSum_[g] += w * inlier * f.budRatio;
-        otherSq_[g] += w * inlier * f.budRatio * f.budRatio;
+        addReading(otherW_[g], otherSum_[g], otherSq_[g], w * inlier, f.budRatio);
       }
       if (age > 0 && isKnown(f.budRatio)) {
         const auto k = static_cast<std::size_t>(age - 1);
         // Down-weight readings the outlier component explains better.
         const double dens = gaussian(f.budRatio, params.budRatioMean[k], params.budRatioSigma);
-        const double flat = 1.0 / params.budRatioRange;
-        const double inlier =
-            (1 - params.outlier) * dens / ((1 - params.outlier) * dens + params.outlier * flat);
-        ratioW_[k] += w * inlier;
-        ratioSum_[k] += w * inlier * f.budRatio;
-        ratioSq_[k] += w * inlier * f.budRatio * f.budRatio;
+        const double inlier = inlierShare(dens, params);
+        addReading(ratioW_[k], ratioSum_[k], ratioSq_[k], w * inlier, f.budRatio);
       }
     }
   }
