@@ -253,20 +253,24 @@ std::int64_t Project::addEngineRun(const EngineRun& run, const std::vector<Event
   return runId;
 }
 
+namespace {
+constexpr const char* kSelectRuns =
+    "SELECT id, started_utc, engine_version, parameters_json, input_digest FROM engine_runs ";
+EngineRun runFromRow(Statement& st) {
+  return {st.int64(0), st.text(1), st.text(2), st.text(3), st.text(4)};
+}
+}  // namespace
+
 std::optional<EngineRun> Project::latestRun() {
-  auto st = db_->prepare(
-      "SELECT id, started_utc, engine_version, parameters_json, input_digest FROM engine_runs "
-      "ORDER BY id DESC LIMIT 1");
+  auto st = db_->prepare(std::string(kSelectRuns) + "ORDER BY id DESC LIMIT 1");
   if (!st.step()) return std::nullopt;
-  return EngineRun{st.int64(0), st.text(1), st.text(2), st.text(3), st.text(4)};
+  return runFromRow(st);
 }
 
 std::vector<EngineRun> Project::runs() {
-  auto st = db_->prepare(
-      "SELECT id, started_utc, engine_version, parameters_json, input_digest FROM engine_runs "
-      "ORDER BY id");
+  auto st = db_->prepare(std::string(kSelectRuns) + "ORDER BY id");
   std::vector<EngineRun> out;
-  while (st.step()) out.push_back({st.int64(0), st.text(1), st.text(2), st.text(3), st.text(4)});
+  while (st.step()) out.push_back(runFromRow(st));
   return out;
 }
 
