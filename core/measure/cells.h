@@ -21,6 +21,11 @@ struct Cell {
   double contrast = 0;              // mean signed difference from background, in noise SDs
   double strength = 0;              // mean absolute difference from background, in noise SDs
   double texture = 0;               // SD of the difference inside the cell, in noise SDs
+  // Pixels of background between this cell's outline and the mother's (the nearest
+  // pair); 0 for the mother and a bud joined to her, -1 when no mother was found. A
+  // bud squeezed into a gap is long and thin, so disks of equal area would put it
+  // farther away than it is.
+  double gapToMotherPx = -1;
   bool touchesMother = false;
   bool cutByEdge = false;
   CellRole role = CellRole::Other;

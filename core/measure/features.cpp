@@ -11,9 +11,12 @@ namespace {
 
 double radiusOf(double areaPx) { return std::sqrt(std::max(0.0, areaPx) / std::numbers::pi); }
 
-// Edge-to-edge gap between two cells modelled as disks of their areas.
-double gapBetween(const Cell& a, const Cell& b) {
-  return std::hypot(a.x - b.x, a.y - b.y) - radiusOf(a.areaPx) - radiusOf(b.areaPx);
+// Edge-to-edge gap between the mother and another cell: as measured between their
+// outlines when the segmentation did (a bud squeezed into a gap is long and thin),
+// else between disks of their areas.
+double gapBetween(const Cell& mother, const Cell& c) {
+  if (c.gapToMotherPx >= 0 && std::isfinite(c.gapToMotherPx)) return c.gapToMotherPx;
+  return std::hypot(mother.x - c.x, mother.y - c.y) - radiusOf(mother.areaPx) - radiusOf(c.areaPx);
 }
 
 }  // namespace
@@ -155,7 +158,7 @@ FrameFeatures computeFeatures(const CropReading& r, const FeatureContext& ctx,
       f.lodgedNeighbour = true;
     } else if (isAttached && c.areaPx < m.areaPx) {
       ++attached;
-      bestBud = std::max(bestBud, c.areaPx / m.areaPx);
+      bestBud += c.areaPx / m.areaPx;
     } else if (gap < 1.0) {
       ++f.nearOthers;
     }

@@ -23,7 +23,9 @@ std::string_view featureName(int i);
 
 struct FrameFeatures {
   FeatureVector x{};
-  // Attached bud (a touching, smaller cell) over mother area; 0 when none.
+  // Attached cells (smaller than the mother, within the attach gap of her outline) over
+  // her area, summed: a bud broken into pieces by the segmentation is still one bud.
+  // 0 when none.
   double budRatio = 0;
   bool lodgedNeighbour = false;  // a lodged cell beside the mother may hide her bud
   bool hasMother = false;

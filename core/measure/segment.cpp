@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
+#include <limits>
 #include <numbers>
 #include <numeric>
 #include <opencv2/imgproc.hpp>
@@ -573,16 +574,23 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
     out.mask = cellIndexImage(labels, cellOfLabel, out.mother, motherMask, protrusion);
   }
 
-  // Cells touching the mother: their labels meet hers within a 2-pixel ring.
-  cv::Mat ring;
-  cv::dilate(motherMask, ring, cv::getStructuringElement(cv::MORPH_ELLIPSE, {5, 5}));
+  // Cells touching the mother: their labels meet hers within a 2-pixel ring. The
+  // distance to her outline also gives every cell its true gap to her.
+  cv::Mat notMother = motherMask == 0, toMother;
+  cv::distanceTransform(notMother, toMother, cv::DIST_L2, cv::DIST_MASK_PRECISE);
+  for (Cell& c : out.cells) c.gapToMotherPx = std::numeric_limits<double>::infinity();
+  out.cells[static_cast<std::size_t>(out.mother)].gapToMotherPx = 0;
+  for (std::size_t i = cellsBefore; i < out.cells.size(); ++i) out.cells[i].gapToMotherPx = 0;
   for (int y = 0; y < labels.rows; ++y) {
     const int* l = labels.ptr<int>(y);
-    const uchar* r = ring.ptr<uchar>(y);
+    const float* d = toMother.ptr<float>(y);
     for (int x = 0; x < labels.cols; ++x)
-      if (r[x] && l[x] && l[x] != motherLabel) {
+      if (l[x] && l[x] != motherLabel) {
         const int ci = cellOfLabel[static_cast<std::size_t>(l[x])];
-        if (ci >= 0) out.cells[static_cast<std::size_t>(ci)].touchesMother = true;
+        if (ci < 0) continue;
+        Cell& c = out.cells[static_cast<std::size_t>(ci)];
+        c.gapToMotherPx = std::min(c.gapToMotherPx, std::max(0.0, d[x] - 1.0));
+        if (d[x] <= 2.5) c.touchesMother = true;
       }
   }
   const double motherArea = out.cells[static_cast<std::size_t>(out.mother)].areaPx;

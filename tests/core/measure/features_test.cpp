@@ -2,6 +2,8 @@
 
 #include <gtest/gtest.h>
 
+#include <numbers>
+
 #include "core/measure/background.h"
 #include "core/measure/occupancy.h"
 #include "core/measure/segment.h"
@@ -45,6 +47,40 @@ TEST(Features, BudAttachedAndDaughterApart) {
   EXPECT_TRUE(d.hasMother);
   EXPECT_EQ(d.budRatio, 0.0);
   EXPECT_LT(d.x[4], 3.0);  // but a neighbour is seen
+}
+
+// A bud squeezed into the gap between two posts is long and thin: its outline nearly
+// touches the mother while a disk of its area would lie well away from her. Its pieces,
+// when the segmentation breaks it, are one bud, not crowding.
+TEST(Features, SqueezedBudIsAttachedByItsOutlineGapAndItsPiecesAddUp) {
+  CropReading r;
+  Cell m;
+  m.x = 32;
+  m.y = 30;
+  m.areaPx = std::numbers::pi * 8 * 8;
+  m.gapToMotherPx = 0;
+  m.role = CellRole::Mother;
+  Cell piece;
+  piece.x = 31;
+  piece.y = 46;  // centre 16 px from hers: as disks of their areas, 6.8 px apart
+  piece.areaPx = 20;
+  piece.gapToMotherPx = 1.5;  // as measured between the outlines
+  Cell lower = piece;
+  lower.x = 34;
+  lower.y = 49;
+  lower.areaPx = 12;
+  lower.gapToMotherPx = 2.0;
+  r.cells = {m, piece, lower};
+  r.mother = 0;
+  const FrameFeatures f = computeFeatures(r, context());
+  EXPECT_NEAR(f.budRatio, 32 / m.areaPx, 1e-9);
+  EXPECT_EQ(f.x[3], 2);  // two attached pieces
+  EXPECT_EQ(f.nearOthers, 0);
+  // Without outline gaps (older readings), disks decide: both pieces are apart.
+  for (auto& c : r.cells) c.gapToMotherPx = -1;
+  const FrameFeatures d = computeFeatures(r, context());
+  EXPECT_EQ(d.budRatio, 0.0);
+  EXPECT_GE(d.nearOthers, 1);  // and read as crowding
 }
 
 TEST(Features, UnchangingNeighbourIsLodgedAndGrowingBudIsNot) {

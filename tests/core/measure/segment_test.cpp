@@ -119,6 +119,21 @@ TEST(Segment, DetachedDaughterIsNotABud) {
   }
 }
 
+TEST(Segment, GapToTheMotherIsMeasuredBetweenOutlines) {
+  Scene s;
+  s.cells = {{32, 30, 8, 8}, {32, 10, 6, 6}};  // outlines ~6 px apart
+  for (const Case& c : looks()) {
+    const CropReading r = read(s, c);
+    ASSERT_GE(r.mother, 0);
+    EXPECT_EQ(r.cells[static_cast<std::size_t>(r.mother)].gapToMotherPx, 0);
+    for (std::size_t i = 0; i < r.cells.size(); ++i) {
+      if (static_cast<int>(i) == r.mother) continue;
+      // A rim or halo moves each outline by a pixel or two.
+      EXPECT_NEAR(r.cells[i].gapToMotherPx, 6, 3) << "polarity " << c.optics.polarity;
+    }
+  }
+}
+
 TEST(Segment, CrowdedTrapCountsItsCells) {
   Scene s;
   s.width = 80;
