@@ -71,6 +71,10 @@ void fillHoles(cv::Mat& mask) {
 // that it no longer encloses the cell; an object that still covers little of its
 // box (a rim with a gap) is closed with a wider disk. Objects are handled one by one
 // in their own boxes, which keeps the work proportional to what is in the crop.
+// Width of the blurred fringe outside a cell that the cut at half contrast trims (px):
+// about twice the blur of the smoothing (sigma 1 px) and of the optics.
+constexpr float kFringePx = 3.0f;
+
 cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double threshold) {
   const float strongLevel = static_cast<float>(threshold * sd);
   const float weakLevel = static_cast<float>(0.5 * threshold * sd);
@@ -143,8 +147,15 @@ cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double thresho
         }
     }
     cv::morphologyEx(full, full, cv::MORPH_CLOSE, disk3);
-    cv::morphologyEx(half, half, cv::MORPH_CLOSE, disk3);
     fillHoles(full);
+    // The cut is for the blurred fringe along the outside. Deep inside the object a
+    // weak interior (a bright rim's pale centre) stays: cut there, it can open onto
+    // the neck of a bud and no longer be a hole to fill, and the ring left over is
+    // split into sectors by the watershed.
+    cv::Mat depth;
+    cv::distanceTransform(full, depth, cv::DIST_L2, cv::DIST_MASK_3);
+    half |= depth > kFringePx;
+    cv::morphologyEx(half, half, cv::MORPH_CLOSE, disk3);
     fillHoles(half);
     cv::Mat& object = 2 * cv::countNonZero(half) >= cv::countNonZero(full) ? half : full;
     const int area = cv::countNonZero(object);

@@ -134,6 +134,45 @@ TEST(Segment, GapToTheMotherIsMeasuredBetweenOutlines) {
   }
 }
 
+// A bright-rimmed mother with a pale centre, beside a bud of higher contrast: the cut at
+// half the object's contrast falls above her centre and the dim side of her rim facing
+// the bud, and the centre then opens onto the dim seam between them. She must still
+// come out as one whole cell, not a ring split into sectors.
+TEST(Segment, PaleCentredMotherBesideABrighterBudStaysWhole) {
+  const int W = 64, H = 72;
+  const double cx = 32, cy = 28, rm = 11, bx = 32, by = 28 + 11 + 2 + 6, rb = 6;
+  const cv::Mat background(H, W, CV_32F, cv::Scalar(1000));
+  cv::Mat crop = background.clone();
+  const double sd = 10;
+  for (int y = 0; y < H; ++y)
+    for (int x = 0; x < W; ++x) {
+      const double dm = std::hypot(x - cx, y - cy), db = std::hypot(x - bx, y - by);
+      double v = 0;  // in noise SDs
+      if (dm <= rm) {
+        // Bright but for a pale centre and a dim channel from it towards the bud.
+        const bool channel = y > cy && std::abs(x - cx) < 1.5;
+        v = dm > 2 && !channel ? 24 : 6;
+      } else if (db <= rb) {
+        v = 30;  // the bud
+      } else if (y > cy + rm - 1 && y < by - rb + 1 && std::abs(x - cx) < 5) {
+        v = 6;  // the dim seam between them (still one object at the weak level)
+      }
+      crop.at<float>(y, x) += static_cast<float>(v * sd);
+    }
+  SegmentParams p;
+  p.polarity = 1;
+  p.motherRadiusPx = rm;
+  const CropReading r = segmentCrop(crop, background, sd, {cx, cy, 0.27}, p);
+  ASSERT_GE(r.mother, 0);
+  const Cell& m = r.cells[static_cast<std::size_t>(r.mother)];
+  EXPECT_GT(m.areaPx, 0.75 * std::numbers::pi * rm * rm);
+  EXPECT_NEAR(m.x, cx, 1.5);
+  EXPECT_NEAR(m.y, cy, 1.5);
+  int nearCentre = 0;  // no sectors of her beside her
+  for (const Cell& c : r.cells) nearCentre += std::hypot(c.x - cx, c.y - cy) < rm;
+  EXPECT_EQ(nearCentre, 1);
+}
+
 TEST(Segment, CrowdedTrapCountsItsCells) {
   Scene s;
   s.width = 80;
