@@ -74,6 +74,8 @@ void fillHoles(cv::Mat& mask) {
 // Width of the blurred fringe outside a cell that the cut at half contrast trims (px):
 // about twice the blur of the smoothing (sigma 1 px) and of the optics.
 constexpr float kFringePx = 3.0f;
+// How far a neighbour's halo and edge reach into the mother's pixels (px).
+constexpr float kNeighbourReachPx = 3.0f;
 
 cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double threshold) {
   const float strongLevel = static_cast<float>(threshold * sd);
@@ -603,6 +605,31 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
         c.gapToMotherPx = std::min(c.gapToMotherPx, std::max(0.0, d[x] - 1.0));
         if (d[x] <= 2.5) c.touchesMother = true;
       }
+  }
+  // Her contrast and texture (the death evidence) from her pixels away from other cells:
+  // a neighbour pressed against her lends her its halo and edge, and a mother read with
+  // a weaker contrast for as long as a passer-by stays beside her looked like a dying one.
+  {
+    cv::Mat others = (labels > 0) & (motherMask == 0), toOthers;
+    cv::distanceTransform(others == 0, toOthers, cv::DIST_L2, cv::DIST_MASK_3);
+    double n = 0, sum = 0, squares = 0;
+    for (int y = 0; y < labels.rows; ++y) {
+      const uchar* m = motherMask.ptr<uchar>(y);
+      const float* d = diff.ptr<float>(y);
+      const float* far = toOthers.ptr<float>(y);
+      for (int x = 0; x < labels.cols; ++x)
+        if (m[x] && far[x] > kNeighbourReachPx) {
+          const double v = d[x] / sd;
+          n += 1;
+          sum += v;
+          squares += v * v;
+        }
+    }
+    Cell& mother = out.cells[static_cast<std::size_t>(out.mother)];
+    if (n >= 0.3 * mother.areaPx) {
+      mother.contrast = sum / n;
+      mother.texture = std::sqrt(std::max(0.0, squares / n - mother.contrast * mother.contrast));
+    }
   }
   const double motherArea = out.cells[static_cast<std::size_t>(out.mother)].areaPx;
   double bestBud = 0;

@@ -173,6 +173,39 @@ TEST(Segment, PaleCentredMotherBesideABrighterBudStaysWhole) {
   EXPECT_EQ(nearCentre, 1);
 }
 
+// The mother's contrast and texture are the death evidence. A neighbour pressed against
+// her lends her the edge of its halo: here it lowers her signal within 3 px of it to
+// 60%. Read from her pixels away from other cells, her contrast stays what it is when
+// she is alone (a passer-by beside a live mother was taken for a change at death).
+TEST(Segment, NeighbourDoesNotChangeTheMothersContrast) {
+  const int W = 64, H = 72;
+  const double cx = 32, cy = 40, rm = 9, nx = 32, ny = 40 - 9 - 7, rn = 7;
+  const cv::Mat background(H, W, CV_32F, cv::Scalar(1000));
+  const double sd = 10;
+  auto reading = [&](bool withNeighbour) {
+    cv::Mat crop = background.clone();
+    for (int y = 0; y < H; ++y)
+      for (int x = 0; x < W; ++x) {
+        const double dm = std::hypot(x - cx, y - cy), dn = std::hypot(x - nx, y - ny);
+        double v = 0;
+        if (dm <= rm) v = withNeighbour && dn <= rn + 3 ? 7 : 12;
+        else if (withNeighbour && dn <= rn) v = 12;
+        crop.at<float>(y, x) += static_cast<float>(v * sd);
+      }
+    SegmentParams p;
+    p.polarity = 1;
+    p.motherRadiusPx = rm;
+    return segmentCrop(crop, background, sd, {cx, cy, 0.27}, p);
+  };
+  const CropReading alone = reading(false), pressed = reading(true);
+  ASSERT_GE(alone.mother, 0);
+  ASSERT_GE(pressed.mother, 0);
+  ASSERT_EQ(pressed.cells.size(), 2u);
+  const Cell& a = alone.cells[static_cast<std::size_t>(alone.mother)];
+  const Cell& b = pressed.cells[static_cast<std::size_t>(pressed.mother)];
+  EXPECT_NEAR(b.contrast / a.contrast, 1.0, 0.015);
+}
+
 TEST(Segment, CrowdedTrapCountsItsCells) {
   Scene s;
   s.width = 80;
