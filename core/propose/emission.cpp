@@ -223,6 +223,10 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
           dens = gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
         else if (group == StateGroup::Dead)
           dens = gaussian(f.budRatio, params.budRatioDeadMean, params.budRatioDeadSigma);
+        // A neighbour pressed against the mother adds to the bud ratio while her own
+        // outline is fine: the ratio alone can be wrong, so it has an outlier term of its
+        // own (otherwise the only cheap home for such frames is a dead state).
+        dens = (1 - params.outlier) * dens + params.outlier * ratioFlat;
         valid += std::log(std::max(dens, 1e-300));
         flatAll += std::log(ratioFlat);
       }
