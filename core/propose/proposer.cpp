@@ -119,7 +119,8 @@ int argmax4(const std::array<double, 4>& q) {
 
 TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
                      const EmissionParams& emission, const TrapEvidence& evidence,
-                     const ReviewRules& review, const MorphBaseline* baseline) {
+                     const ReviewRules& review, const MorphBaseline* baseline,
+                     double confidenceTemper) {
   TrapCalls out;
   out.trap = trap;
   const int T = static_cast<int>(evidence.size());
@@ -128,7 +129,9 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
   const auto em = emissionLogLikelihood(model, emission, evidence, baseline);
   const SparseHmm& hmm = model.hmm();
   out.path = hmm.viterbi(em, T);
-  const auto post = hmm.forwardBackward(em, T);
+  std::vector<double> tempered = em;
+  for (double& v : tempered) v *= confidenceTemper;
+  const auto post = hmm.forwardBackward(tempered, T);
 
   out.pLive.resize(static_cast<std::size_t>(T));
   out.pBudded.resize(static_cast<std::size_t>(T));
@@ -307,7 +310,7 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
   out.traps.resize(n);
   parallelFor(n, workers, [&](std::size_t i, int) {
     out.traps[i] = decodeTrap(position, trapIds[i], model, emission, evidence[i], options.review,
-                              &baselines[i]);
+                              &baselines[i], options.confidenceTemper);
   });
   out.cycle = cycle;
   out.emission = emission;

@@ -87,7 +87,12 @@ TEST(Generative, DecodesItsOwnStoryAtTenMinuteFrames) {
   truth.meanBuddedExtraMin = 20;
   truth.deathPerMin = 1.0 / 1500;
   const Experiment x = sampleExperiment(truth, 42, 200, 20261);
-  const evaluate::Score s = scoreCalls(x, proposePosition(0, x.ids, x.evidence, ProposeOptions{}));
+  // Evidence drawn from the model itself has truly independent channels, so its exact
+  // posteriors apply; the tempering of confidences is for images, whose channels share
+  // one outline's errors.
+  ProposeOptions exact;
+  exact.confidenceTemper = 1.0;
+  const evaluate::Score s = scoreCalls(x, proposePosition(0, x.ids, x.evidence, exact));
   expectNearOracle(s, oracleScore(x, truth));
   // Calibration: confident calls are right about as often as they claim.
   for (const auto& bin : s.reliability)
@@ -104,6 +109,28 @@ TEST(Generative, ScalesWithTheFrameInterval) {
   opt.cycle.intervalMin = 5;
   const evaluate::Score s = scoreCalls(x, proposePosition(0, x.ids, x.evidence, opt));
   expectNearOracle(s, oracleScore(x, truth));
+}
+
+// Tempering the confidences changes how sure the calls are, never which calls are made.
+TEST(Generative, TemperedConfidencesKeepTheCalls) {
+  const Experiment x = sampleExperiment(CycleParams{}, 12, 160, 9031);
+  ProposeOptions exact, tempered;
+  exact.confidenceTemper = 1.0;
+  tempered.confidenceTemper = 0.35;
+  const PositionCalls a = proposePosition(0, x.ids, x.evidence, exact);
+  const PositionCalls b = proposePosition(0, x.ids, x.evidence, tempered);
+  ASSERT_EQ(a.traps.size(), b.traps.size());
+  double sureA = 0, sureB = 0;
+  for (std::size_t i = 0; i < a.traps.size(); ++i) {
+    ASSERT_EQ(a.traps[i].events.size(), b.traps[i].events.size());
+    for (std::size_t k = 0; k < a.traps[i].events.size(); ++k) {
+      EXPECT_EQ(a.traps[i].events[k].frame, b.traps[i].events[k].frame);
+      EXPECT_EQ(a.traps[i].events[k].kind, b.traps[i].events[k].kind);
+      sureA += a.traps[i].events[k].confidence;
+      sureB += b.traps[i].events[k].confidence;
+    }
+  }
+  EXPECT_LT(sureB, sureA);  // less sure on the whole
 }
 
 TEST(Generative, ReestimationMovesDurationsTowardsTheTruth) {
