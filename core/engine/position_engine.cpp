@@ -209,11 +209,12 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   parallelFor(N, options.threads, [&](std::size_t i) {
     noiseMaps[i] = measure::noiseMap(background.background(i), noise, shift, seg.smoothSigmaPx);
   });
-  // Where mothers sit and how big they are, from the samples: the seat can be a few
-  // pixels off the lattice's cup centre, and cell size varies with strain and optics.
+  // Where mothers sit and how big they are, from the samples: the seat can be more than
+  // a mother radius off the lattice's cup centre, and cell size varies with strain and
+  // optics. Mothers are looked for within two expected radii of it.
   measure::CropGeometry seatGeometry = geometry;
   measure::SegmentParams searching = seg;
-  searching.seatRadiusFactor = 1.5 * seg.seatRadiusFactor;
+  searching.seatRadiusFactor = 2.0 * seg.seatRadiusFactor;
   std::vector<std::vector<std::array<double, 3>>> trapMothers(N);  // area, x, y
   parallelFor(N, options.threads, [&](std::size_t i) {
     for (std::size_t k = 1; k < samples[i].size(); k += 2) {
@@ -235,7 +236,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
     seg.motherRadiusPx = std::clamp(std::sqrt(median(motherAreas) / std::numbers::pi),
                                     0.6 * startRadius, 1.6 * startRadius);
     const double dx = median(seatX) - geometry.cupX, dy = median(seatY) - geometry.cupY;
-    if (std::hypot(dx, dy) < seg.motherRadiusPx) {
+    if (std::hypot(dx, dy) < 1.5 * seg.motherRadiusPx) {
       seatGeometry.cupX += dx;
       seatGeometry.cupY += dy;
     }

@@ -37,5 +37,16 @@ TEST(EngineAccuracy, EasyDifficultyFreshSeed) {
   EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.85);
 }
 
+// End to end on a fresh preset whose found lattice puts the cup centre about one
+// mother radius (9 px) beside where mothers sit: the engine finds the seat from the
+// mothers themselves (with a search of one radius it stayed put: separation F1 0.69).
+TEST(EngineAccuracy, SeatFoundWhenTheLatticeIsARadiusOff) {
+  const auto s = testing::simulateAndScore(small(9301, demo::Difficulty::Normal, 216), "seat", true);
+  std::cerr << evaluate::toMarkdown(s);
+  EXPECT_GE(s.kind(EventKind::Separation).f1(), 0.85);
+  EXPECT_LE(s.mae, 1.5);
+  EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.85);
+}
+
 }  // namespace
 }  // namespace budledger::engine

@@ -15,7 +15,10 @@
 
 namespace budledger::engine::testing {
 
-inline evaluate::Score simulateAndScore(demo::Scenario scenario, const std::string& tag) {
+// With `findLattice` the trap lattice is found by the pipeline, as `analyze` does;
+// otherwise the truth's cup centres are the layout, which measures the engine alone.
+inline evaluate::Score simulateAndScore(demo::Scenario scenario, const std::string& tag,
+                                        bool findLattice = false) {
   namespace fs = std::filesystem;
   const fs::path dir = fs::temp_directory_path() / ("budledger-engine-" + tag);
   fs::remove_all(dir);
@@ -30,11 +33,12 @@ inline evaluate::Score simulateAndScore(demo::Scenario scenario, const std::stri
     pipeline::AnalyzeOptions options;
     options.positionName = tp.name;
     options.digests = false;
-    // The truth's cup centres as the layout: this measures the engine, not lattice finding.
     const fs::path trapsFile = dir / "truth" / tp.name / "traps.csv";
     const auto supplied = traps::readTrapsCsv(trapsFile);
-    options.suppliedTraps = &supplied;
-    options.suppliedTrapsFile = trapsFile;
+    if (!findLattice) {
+      options.suppliedTraps = &supplied;
+      options.suppliedTrapsFile = trapsFile;
+    }
     std::vector<pipeline::FrameStage*> stages{&stage};
     const auto a = pipeline::analyzeFrames(*source, options, {}, stages);
     evaluate::EnginePosition e;
