@@ -188,44 +188,46 @@ std::vector<std::vector<int>> BackgroundSearch::empties(double cupX, double cupY
       const double dx = x - cupX, dy = y - cupY;
       if (dx * dx + dy * dy <= r2) disk.push_back({x, y});
     }
-  // Each sample's k-th nearest distance to samples of other traps.
-  struct Sample {
-    std::size_t trap;
-    int index;
-    std::vector<float> v;
-  };
-  std::vector<Sample> all;
+  // Each sample's k-th nearest distance to samples of other traps. The disks are held
+  // pixel-major ([pixel][sample]) so that one sample's distances to all others are
+  // summed side by side, each in the same pixel order as meanAbs() would: the sums
+  // vectorise across samples and every distance stays exactly what meanAbs() gives.
+  std::vector<std::pair<std::size_t, int>> all;  // trap, sample index
   for (std::size_t t = 0; t < traps; ++t)
-    for (std::size_t k = 0; k < smoothed_[t].size(); ++k)
-      all.push_back({t, static_cast<int>(k), pick(smoothed_[t][k], disk)});
-  std::vector<double> knn(all.size(), std::numeric_limits<double>::infinity());
-  const int workers =
-      std::max(1, options_.threads > 0 ? options_.threads
-                                       : static_cast<int>(std::thread::hardware_concurrency()));
-  std::atomic<std::size_t> next{0};
-  auto work = [&] {
-    std::vector<double> d;
-    for (std::size_t i = next++; i < all.size(); i = next++) {
-      d.clear();
-      for (std::size_t j = 0; j < all.size(); ++j)
-        if (all[j].trap != all[i].trap) d.push_back(meanAbs(all[i].v, all[j].v));
-      const auto k = std::min<std::size_t>(static_cast<std::size_t>(options_.neighbours), d.size());
-      if (k == 0) continue;
-      std::nth_element(d.begin(), d.begin() + static_cast<std::ptrdiff_t>(k - 1), d.end());
-      knn[i] = d[k - 1];
+    for (std::size_t k = 0; k < smoothed_[t].size(); ++k) all.emplace_back(t, static_cast<int>(k));
+  const std::size_t n = all.size(), P = disk.size();
+  std::vector<float> disks(P * n);
+  for (std::size_t j = 0; j < n; ++j) {
+    const cv::Mat& m = smoothed_[all[j].first][static_cast<std::size_t>(all[j].second)];
+    for (std::size_t p = 0; p < P; ++p) disks[p * n + j] = m.at<float>(disk[p]);
+  }
+  std::vector<double> knn(n, std::numeric_limits<double>::infinity());
+  const auto k = static_cast<std::size_t>(options_.neighbours);
+  parallelFor(n, options_.threads, [&](std::size_t i) {
+    std::vector<float> sum(n, 0.f);
+    float* s = sum.data();
+    for (std::size_t p = 0; p < P; ++p) {
+      const float a = disks[p * n + i];
+      const float* row = disks.data() + p * n;
+      for (std::size_t j = 0; j < n; ++j) s[j] += std::abs(a - row[j]);
     }
-  };
-  std::vector<std::thread> pool;
-  for (int w = 1; w < workers; ++w) pool.emplace_back(work);
-  work();
-  for (auto& th : pool) th.join();
+    std::vector<double> d;
+    d.reserve(n);
+    for (std::size_t j = 0; j < n; ++j)
+      if (all[j].first != all[i].first)
+        d.push_back(P ? static_cast<double>(s[j]) / static_cast<double>(P) : 0.0);
+    const std::size_t kk = std::min(k, d.size());
+    if (kk == 0) return;
+    std::nth_element(d.begin(), d.begin() + static_cast<std::ptrdiff_t>(kk - 1), d.end());
+    knn[i] = d[kk - 1];
+  });
 
   // Empty samples form the low mode of log k-NN distance; occupied ones sit well above.
   // The split is Otsu's threshold (Otsu 1979) on the log distances; it is accepted only
   // when the low mode is near the noise floor and clearly apart from the rest.
   const double limit = emptyLimit(knn, floor_, options_);
-  for (std::size_t i = 0; i < all.size(); ++i)
-    if (knn[i] <= limit) out[all[i].trap].push_back(all[i].index);
+  for (std::size_t i = 0; i < n; ++i)
+    if (knn[i] <= limit) out[all[i].first].push_back(all[i].second);
   return out;
 }
 
