@@ -1,5 +1,7 @@
 #include "core/measure/segment.h"
 
+#include "core/measure/small_morphology.h"
+
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
@@ -101,8 +103,9 @@ cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double thresho
       peak[i] = std::max(peak[i], v[x]);
     }
   }
-  const cv::Mat disk3 = cv::getStructuringElement(cv::MORPH_ELLIPSE, {3, 3});
-  const cv::Mat disk7 = cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7});
+  static const StructuringElement disk3(cv::getStructuringElement(cv::MORPH_ELLIPSE, {3, 3}));
+  static const StructuringElement disk7(cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7}));
+  thread_local cv::Mat scratch;
   const cv::Rect frame(0, 0, diff.cols, diff.rows);
   std::vector<int> histogram(32);
   for (int i = 1; i < n; ++i) {
@@ -141,17 +144,17 @@ cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double thresho
           h[x] = v[x] > level ? 255 : 0;
         }
     }
-    cv::morphologyEx(full, full, cv::MORPH_CLOSE, disk3);
-    cv::morphologyEx(half, half, cv::MORPH_CLOSE, disk3);
+    smallClose(full, disk3, scratch);
+    smallClose(half, disk3, scratch);
     fillHoles(full);
     fillHoles(half);
     cv::Mat& object = 2 * cv::countNonZero(half) >= cv::countNonZero(full) ? half : full;
     const int area = cv::countNonZero(object);
     if (box.area() >= 30 && area < 0.45 * tight.area()) {
-      cv::morphologyEx(object, object, cv::MORPH_CLOSE, disk7);
+      smallClose(object, disk7, scratch);
       fillHoles(object);
     }
-    cv::morphologyEx(object, object, cv::MORPH_OPEN, disk3);
+    smallOpen(object, disk3, scratch);
     cv::Mat target = out(box);
     target |= object;
   }
@@ -264,7 +267,8 @@ int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels
   // Peaks: maxima of the distance map in a 5x5 window; a plateau of equal maxima is
   // one peak (its first pixel).
   cv::Mat dilated;
-  cv::dilate(dist, dilated, cv::getStructuringElement(cv::MORPH_RECT, {5, 5}));
+  static const StructuringElement square5(cv::getStructuringElement(cv::MORPH_RECT, {5, 5}));
+  smallDilate(dist, dilated, square5);
   const float minPeak = 1.5f;
   cv::Mat peakMask(dist.size(), CV_8U, cv::Scalar(0));
   for (int y = 0; y < dist.rows; ++y) {
@@ -575,7 +579,8 @@ CropReading segmentRegion(const cv::Mat& diff, double sd, const CropGeometry& ge
 
   // Cells touching the mother: their labels meet hers within a 2-pixel ring.
   cv::Mat ring;
-  cv::dilate(motherMask, ring, cv::getStructuringElement(cv::MORPH_ELLIPSE, {5, 5}));
+  static const StructuringElement disk5(cv::getStructuringElement(cv::MORPH_ELLIPSE, {5, 5}));
+  smallDilate(motherMask, ring, disk5);
   for (int y = 0; y < labels.rows; ++y) {
     const int* l = labels.ptr<int>(y);
     const uchar* r = ring.ptr<uchar>(y);

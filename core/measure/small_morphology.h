@@ -1,0 +1,28 @@
+#pragma once
+// Dilation, erosion, closing and opening for the small images of one crop
+// (a few thousand pixels), where setting up OpenCV's filter engine costs more
+// than the filtering itself. Any structuring element with its anchor at the
+// centre; pixels outside the image never win (OpenCV's default border for
+// morphology), so the results are exactly those of cv::dilate, cv::erode and
+// cv::morphologyEx with the same element. CV_8U and CV_32F images.
+#include <opencv2/core.hpp>
+
+namespace budledger::measure {
+
+// The element's set pixels as offsets from its centre.
+class StructuringElement {
+ public:
+  explicit StructuringElement(const cv::Mat& element);
+  const std::vector<cv::Point>& offsets() const { return offsets_; }
+
+ private:
+  std::vector<cv::Point> offsets_;
+};
+
+void smallDilate(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element);
+void smallErode(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element);
+// In place; `scratch` is reused between calls.
+void smallClose(cv::Mat& image, const StructuringElement& element, cv::Mat& scratch);
+void smallOpen(cv::Mat& image, const StructuringElement& element, cv::Mat& scratch);
+
+}  // namespace budledger::measure
