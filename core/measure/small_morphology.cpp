@@ -7,6 +7,11 @@
 namespace budledger::measure {
 namespace {
 
+template <typename T, bool Max>
+T pickOf(T a, T b) {
+  return Max ? std::max(a, b) : std::min(a, b);
+}
+
 // dst = extreme (max for dilation, min for erosion) of src shifted by every offset,
 // row by row so the inner loop is a plain vectorisable max or min. `dst` must not
 // share data with `src`.
@@ -23,18 +28,61 @@ void extreme(const cv::Mat& src, cv::Mat& dst, const std::vector<cv::Point>& off
     for (int y = y0; y < y1; ++y) {
       const T* s = src.ptr<T>(y + o.y) + o.x;
       T* d = dst.ptr<T>(y);
-      for (int x = x0; x < x1; ++x) d[x] = Max ? std::max(d[x], s[x]) : std::min(d[x], s[x]);
+      for (int x = x0; x < x1; ++x) d[x] = pickOf<T, Max>(d[x], s[x]);
     }
   }
+}
+
+// The same for a full rectangle of half sizes `half`, as a row pass and a column pass:
+// the extreme over the rectangle's part inside the image is the extreme over its rows
+// of the extreme over each row's part inside.
+template <typename T, bool Max>
+void extremeRect(const cv::Mat& src, cv::Mat& dst, cv::Size half) {
+  const int W = src.cols, H = src.rows;
+  thread_local cv::Mat rows;
+  rows.create(src.size(), src.type());
+  for (int y = 0; y < H; ++y) {
+    const T* s = src.ptr<T>(y);
+    T* r = rows.ptr<T>(y);
+    std::copy(s, s + W, r);
+    for (int dx = 1; dx <= half.width; ++dx) {
+      for (int x = 0; x + dx < W; ++x) r[x] = pickOf<T, Max>(r[x], s[x + dx]);
+      for (int x = dx; x < W; ++x) r[x] = pickOf<T, Max>(r[x], s[x - dx]);
+    }
+  }
+  dst.create(src.size(), src.type());
+  for (int y = 0; y < H; ++y) {
+    T* d = dst.ptr<T>(y);
+    const T* r = rows.ptr<T>(y);
+    std::copy(r, r + W, d);
+    for (int dy = 1; dy <= half.height; ++dy) {
+      if (y + dy < H) {
+        const T* below = rows.ptr<T>(y + dy);
+        for (int x = 0; x < W; ++x) d[x] = pickOf<T, Max>(d[x], below[x]);
+      }
+      if (y - dy >= 0) {
+        const T* above = rows.ptr<T>(y - dy);
+        for (int x = 0; x < W; ++x) d[x] = pickOf<T, Max>(d[x], above[x]);
+      }
+    }
+  }
+}
+
+template <typename T, bool Max>
+void run(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element) {
+  if (const auto half = element.rectangle())
+    extremeRect<T, Max>(src, dst, *half);
+  else
+    extreme<T, Max>(src, dst, element.offsets());
 }
 
 template <bool Max>
 void apply(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element) {
   CV_Assert(src.data != dst.data || src.empty());
   if (src.depth() == CV_8U)
-    extreme<uchar, Max>(src, dst, element.offsets());
+    run<uchar, Max>(src, dst, element);
   else if (src.depth() == CV_32F)
-    extreme<float, Max>(src, dst, element.offsets());
+    run<float, Max>(src, dst, element);
   else
     CV_Error(cv::Error::StsUnsupportedFormat, "small morphology: CV_8U or CV_32F only");
 }
@@ -46,6 +94,8 @@ StructuringElement::StructuringElement(const cv::Mat& element) {
   for (int y = 0; y < element.rows; ++y)
     for (int x = 0; x < element.cols; ++x)
       if (element.at<uchar>(y, x)) offsets_.push_back(cv::Point(x, y) - centre);
+  if (element.cols % 2 && element.rows % 2 && offsets_.size() == element.total())
+    rectangle_ = cv::Size(element.cols / 2, element.rows / 2);
 }
 
 void smallDilate(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element) {

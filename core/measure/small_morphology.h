@@ -7,6 +7,9 @@
 // cv::morphologyEx with the same element. CV_8U and CV_32F images.
 #include <opencv2/core.hpp>
 
+#include <optional>
+#include <vector>
+
 namespace budledger::measure {
 
 // The element's set pixels as offsets from its centre.
@@ -14,9 +17,12 @@ class StructuringElement {
  public:
   explicit StructuringElement(const cv::Mat& element);
   const std::vector<cv::Point>& offsets() const { return offsets_; }
+  // Half sizes when every pixel of the element is set (a rectangle is separable).
+  std::optional<cv::Size> rectangle() const { return rectangle_; }
 
  private:
   std::vector<cv::Point> offsets_;
+  std::optional<cv::Size> rectangle_;
 };
 
 void smallDilate(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element);
