@@ -201,16 +201,23 @@ std::vector<std::vector<int>> BackgroundSearch::empties(double cupX, double cupY
     const cv::Mat& m = smoothed_[all[j].first][static_cast<std::size_t>(all[j].second)];
     for (std::size_t p = 0; p < P; ++p) disks[p * n + j] = m.at<float>(disk[p]);
   }
-  std::vector<double> knn(n, std::numeric_limits<double>::infinity());
-  const auto k = static_cast<std::size_t>(options_.neighbours);
+  // A distance is symmetric (|a - b| = |b - a|, summed in the same order), so row i sums
+  // only j > i and lends each sum to row j.
+  std::vector<float> sums(n * n, 0.f);
   parallelFor(n, options_.threads, [&](std::size_t i) {
-    std::vector<float> sum(n, 0.f);
-    float* s = sum.data();
+    float* s = sums.data() + i * n;
     for (std::size_t p = 0; p < P; ++p) {
       const float a = disks[p * n + i];
       const float* row = disks.data() + p * n;
-      for (std::size_t j = 0; j < n; ++j) s[j] += std::abs(a - row[j]);
+      for (std::size_t j = i + 1; j < n; ++j) s[j] += std::abs(a - row[j]);
     }
+  });
+  for (std::size_t i = 0; i < n; ++i)
+    for (std::size_t j = i + 1; j < n; ++j) sums[j * n + i] = sums[i * n + j];
+  std::vector<double> knn(n, std::numeric_limits<double>::infinity());
+  const auto k = static_cast<std::size_t>(options_.neighbours);
+  parallelFor(n, options_.threads, [&](std::size_t i) {
+    const float* s = sums.data() + i * n;
     std::vector<double> d;
     d.reserve(n);
     for (std::size_t j = 0; j < n; ++j)
