@@ -68,9 +68,28 @@ void extremeRect(const cv::Mat& src, cv::Mat& dst, cv::Size half) {
   }
 }
 
+// The 3 x 3 cross (OpenCV's 3 x 3 ellipse), the segmentation's most used element, in one
+// pass: each output row reads its own row and the rows above and below.
+template <typename T, bool Max>
+void extremeCross(const cv::Mat& src, cv::Mat& dst) {
+  const int W = src.cols, H = src.rows;
+  dst.create(src.size(), src.type());
+  for (int y = 0; y < H; ++y) {
+    const T* s = src.ptr<T>(y);
+    const T* up = src.ptr<T>(y > 0 ? y - 1 : y);  // its own row stands in at the border
+    const T* down = src.ptr<T>(y < H - 1 ? y + 1 : y);
+    T* d = dst.ptr<T>(y);
+    for (int x = 0; x < W; ++x) d[x] = pickOf<T, Max>(s[x], pickOf<T, Max>(up[x], down[x]));
+    for (int x = 0; x + 1 < W; ++x) d[x] = pickOf<T, Max>(d[x], s[x + 1]);
+    for (int x = W - 1; x > 0; --x) d[x] = pickOf<T, Max>(d[x], s[x - 1]);
+  }
+}
+
 template <typename T, bool Max>
 void run(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element) {
-  if (const auto half = element.rectangle())
+  if (element.isCross())
+    extremeCross<T, Max>(src, dst);
+  else if (const auto half = element.rectangle())
     extremeRect<T, Max>(src, dst, *half);
   else
     extreme<T, Max>(src, dst, element.offsets());
@@ -96,6 +115,8 @@ StructuringElement::StructuringElement(const cv::Mat& element) {
       if (element.at<uchar>(y, x)) offsets_.push_back(cv::Point(x, y) - centre);
   if (element.cols % 2 && element.rows % 2 && offsets_.size() == element.total())
     rectangle_ = cv::Size(element.cols / 2, element.rows / 2);
+  std::vector<cv::Point> cross = {{0, -1}, {-1, 0}, {0, 0}, {1, 0}, {0, 1}};
+  cross_ = offsets_ == cross;
 }
 
 void smallDilate(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element) {

@@ -19,10 +19,13 @@ class StructuringElement {
   const std::vector<cv::Point>& offsets() const { return offsets_; }
   // Half sizes when every pixel of the element is set (a rectangle is separable).
   std::optional<cv::Size> rectangle() const { return rectangle_; }
+  // The plus-shaped 3 x 3 element (what OpenCV makes of a 3 x 3 ellipse).
+  bool isCross() const { return cross_; }
 
  private:
   std::vector<cv::Point> offsets_;
   std::optional<cv::Size> rectangle_;
+  bool cross_ = false;
 };
 
 void smallDilate(const cv::Mat& src, cv::Mat& dst, const StructuringElement& element);

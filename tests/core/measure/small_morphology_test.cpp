@@ -68,8 +68,12 @@ TEST(SmallMorphology, MatchesOpenCvOnFloatImages) {
 TEST(SmallMorphology, AnElementIsItsSetPixels) {
   const StructuringElement cross(cv::getStructuringElement(cv::MORPH_ELLIPSE, {3, 3}));
   EXPECT_EQ(cross.offsets().size(), 5u);  // the 3x3 "ellipse" is a cross
+  EXPECT_TRUE(cross.isCross());
+  EXPECT_FALSE(cross.rectangle());
   const StructuringElement square(cv::getStructuringElement(cv::MORPH_RECT, {5, 5}));
   EXPECT_EQ(square.offsets().size(), 25u);
+  EXPECT_EQ(square.rectangle(), cv::Size(2, 2));
+  EXPECT_FALSE(square.isCross());
 }
 
 }  // namespace
