@@ -26,9 +26,9 @@ void extreme(const cv::Mat& src, cv::Mat& dst, const std::vector<cv::Point>& off
     const int y0 = std::max(0, -o.y), y1 = std::min(H, H - o.y);
     const int x0 = std::max(0, -o.x), x1 = std::min(W, W - o.x);
     for (int y = y0; y < y1; ++y) {
-      const T* s = src.ptr<T>(y + o.y) + o.x;
+      const T* s = src.ptr<T>(y + o.y);
       T* d = dst.ptr<T>(y);
-      for (int x = x0; x < x1; ++x) d[x] = pickOf<T, Max>(d[x], s[x]);
+      for (int x = x0; x < x1; ++x) d[x] = pickOf<T, Max>(d[x], s[x + o.x]);
     }
   }
 }
