@@ -25,6 +25,7 @@ void EngineStage::begin(const pipeline::PositionContext& context) {
   informative_.assign(static_cast<std::size_t>(frames_), false);
   pending_ = EngineResult{};
   ran_ = false;
+  window_ = {};
   if (!context.layout) return;
   // The crop box is relative to the cup centre, so the centre sits at minus its corner.
   // Only a window of options_.windowUm around the cup is kept and measured.
@@ -46,7 +47,7 @@ void EngineStage::frame(const pipeline::FrameView& view) {
   if (!view.crops || view.frame < 0 || view.frame >= frames_) return;
   const auto t = static_cast<std::size_t>(view.frame);
   for (std::size_t i = 0; i < crops_.size() && i < view.crops->size(); ++i)
-    (*view.crops)[i](window_).copyTo(crops_[i][t]);
+    (*view.crops)[i].copyTo(crops_[i][t]);  // cut to window_ already (cropWindow())
   informative_[t] = view.drift && frameIsInformative(*view.drift);
   if (view.frame == frames_ - 1) run();
 }

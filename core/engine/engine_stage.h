@@ -29,6 +29,7 @@ class EngineStage : public pipeline::FrameStage {
 
   std::string_view name() const override { return "engine"; }
   traps::CropSampling sampling() const override { return traps::CropSampling::Linear; }
+  cv::Rect cropWindow() const override { return window_; }
   void begin(const pipeline::PositionContext& context) override;
   void frame(const pipeline::FrameView& view) override;
   void commit(store::Project& project, const pipeline::PositionContext& context) override;

@@ -12,6 +12,7 @@
 
 #include "budledger/version.h"
 #include "core/measure/background.h"
+#include "core/measure/background_search.h"
 #include "core/measure/features.h"
 
 namespace budledger::engine {
@@ -153,24 +154,27 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   bo.cupRadiusPx = 1.3 * startRadius;
   bo.threads = options.threads;
   cv::Point2d cup = in.cup;
-  auto background = measure::BackgroundModel::learn(samples, cup.x, cup.y, bo);
-  if (background.quality() == measure::BackgroundModel::Quality::NoEmptyTrap) {
+  const measure::BackgroundSearch search(samples, bo);
+  auto empties = search.empties(cup.x, cup.y);
+  if (measure::countSamples(empties) < measure::BackgroundSearch::kMinEmpty) {
     // The lattice's cup centre can sit a few pixels off the seat (it depends on the
     // trap shape and the optics); a cup disk straddling post edges then sees their
     // sub-pixel residuals and no two empty traps look alike. Empty traps are alike
     // wherever the disk avoids the edges, so the disk that finds the most of them,
-    // within a mother radius of the guess, is taken.
+    // within a mother radius of the guess, is taken. Only the disk moves: the samples
+    // are smoothed once, and backgrounds are built for the disk kept.
     for (double fy : {-1.0, -0.5, 0.0, 0.5, 1.0})
       for (double fx : {-1.0, -0.5, 0.0, 0.5, 1.0}) {
         if (fx == 0 && fy == 0) continue;
         const cv::Point2d c(in.cup.x + fx * startRadius, in.cup.y + fy * startRadius);
-        auto b = measure::BackgroundModel::learn(samples, c.x, c.y, bo);
-        if (b.emptySamples() > background.emptySamples()) {
-          background = std::move(b);
+        auto e = search.empties(c.x, c.y);
+        if (measure::countSamples(e) > measure::countSamples(empties)) {
+          empties = std::move(e);
           cup = c;
         }
       }
   }
+  const auto background = search.model(std::move(empties));
   measure::SegmentParams seg = options.segment;
   seg.motherRadiusPx = startRadius;
   seg.keepMask = false;

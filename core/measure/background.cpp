@@ -1,132 +1,11 @@
 #include "core/measure/background.h"
 
+#include "core/measure/background_search.h"
+
 #include <algorithm>
-#include <atomic>
-#include <cmath>
-#include <opencv2/imgproc.hpp>
-#include <thread>
+#include <vector>
 
 namespace budledger::measure {
-namespace {
-
-double medianOf(std::vector<double> v) {
-  if (v.empty()) return 0;
-  auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
-  std::nth_element(v.begin(), mid, v.end());
-  return *mid;
-}
-
-cv::Mat borderMask(cv::Size size, int width) {
-  cv::Mat border(size, CV_8U, cv::Scalar(255));
-  if (size.width > 2 * width && size.height > 2 * width)
-    border(cv::Rect(width, width, size.width - 2 * width, size.height - 2 * width)).setTo(0);
-  return border;
-}
-
-// The pixels of a disk, smoothed at a fraction of the cell radius so that noise
-// averages out while a cell's outline and body remain, as a flat vector.
-std::vector<float> diskVector(const cv::Mat& crop, const std::vector<cv::Point>& disk,
-                              double sigma) {
-  cv::Mat s;
-  cv::GaussianBlur(crop, s, cv::Size(0, 0), sigma);
-  std::vector<float> v;
-  v.reserve(disk.size());
-  for (const auto& p : disk) v.push_back(s.at<float>(p));
-  return v;
-}
-
-double meanAbs(const std::vector<float>& a, const std::vector<float>& b) {
-  // Float sums over a few hundred pixels: plenty of precision, and they vectorise.
-  float s = 0;
-  const std::size_t n = std::min(a.size(), b.size());
-  const float* pa = a.data();
-  const float* pb = b.data();
-  for (std::size_t i = 0; i < n; ++i) s += std::abs(pa[i] - pb[i]);
-  return n ? static_cast<double>(s) / static_cast<double>(n) : 0.0;
-}
-
-// Threshold between empty and occupied samples on their k-NN distances; -inf when the
-// distances show no empty mode.
-double emptyLimit(const std::vector<double>& knn, double floor, const BackgroundOptions& o) {
-  std::vector<double> v;
-  for (double d : knn)
-    if (std::isfinite(d) && d > 0) v.push_back(std::log(d));
-  const double none = -std::numeric_limits<double>::infinity();
-  if (v.size() < 4) return none;
-  std::sort(v.begin(), v.end());
-  const std::size_t n = v.size();
-  std::vector<double> prefix(n + 1, 0.0);
-  for (std::size_t i = 0; i < n; ++i) prefix[i + 1] = prefix[i] + v[i];
-  double best = -1;
-  std::size_t split = 0;
-  for (std::size_t i = 1; i < n; ++i) {  // low class v[0..i-1]
-    const double w0 = static_cast<double>(i) / n, w1 = 1 - w0;
-    const double m0 = prefix[i] / i, m1 = (prefix[n] - prefix[i]) / (n - i);
-    const double between = w0 * w1 * (m0 - m1) * (m0 - m1);
-    if (between > best) {
-      best = between;
-      split = i;
-    }
-  }
-  const double lowMean = prefix[split] / split;
-  const double highMean = (prefix[n] - prefix[split]) / (n - split);
-  const bool nearFloor = lowMean <= std::log(o.noiseFactor * floor);
-  const bool apart = highMean - lowMean >= std::log(2.0);
-  if (!nearFloor || !apart) {
-    // Perhaps every sample is empty (an unloaded chip), or none: decide by the floor.
-    return v[n / 2] <= std::log(o.noiseFactor * floor) ? v.back() : none;
-  }
-  return std::exp(0.5 * (v[split - 1] + v[split]));
-}
-
-// The translation d (pixels) that best carries the lattice background onto a trap's own
-// look: Lucas-Kanade (Lucas & Kanade 1981) on the trap's per-pixel median over its
-// samples. A found lattice is regular while fabricated traps sit a few tenths of a pixel
-// off it, and a lattice background that misses a trap's posts by that much leaves
-// residuals along their edges that read as small cells beside the mother. Cells in the
-// median (a mother seated throughout) are outliers, trimmed at 3 robust SD of the
-// residual each round; a shift the posts cannot pin down (too little structure) is zero.
-cv::Point2d latticeOffset(const cv::Mat& lattice, const cv::Mat& own) {
-  cv::Mat I, J;
-  cv::GaussianBlur(lattice, I, cv::Size(0, 0), 1.0);
-  cv::GaussianBlur(own, J, cv::Size(0, 0), 1.0);
-  cv::Point2d d(0, 0);
-  const int margin = 3;  // warped borders are replicated, not information
-  for (int round = 0; round < 6; ++round) {
-    cv::Mat W, gx, gy;
-    const cv::Mat M = (cv::Mat_<double>(2, 3) << 1, 0, d.x, 0, 1, d.y);
-    cv::warpAffine(I, W, M, I.size(), cv::INTER_LINEAR, cv::BORDER_REPLICATE);
-    cv::Sobel(W, gx, CV_32F, 1, 0, 3, 1.0 / 8);
-    cv::Sobel(W, gy, CV_32F, 0, 1, 3, 1.0 / 8);
-    std::vector<double> absR;
-    for (int y = margin; y < I.rows - margin; ++y)
-      for (int x = margin; x < I.cols - margin; ++x)
-        absR.push_back(std::abs(J.at<float>(y, x) - W.at<float>(y, x)));
-    const double cut = 3 * 1.4826 * std::max(1e-9, medianOf(absR));
-    double a = 0, b = 0, c = 0, u = 0, v = 0;
-    for (int y = margin; y < I.rows - margin; ++y)
-      for (int x = margin; x < I.cols - margin; ++x) {
-        const double r = J.at<float>(y, x) - W.at<float>(y, x);
-        if (std::abs(r) > cut) continue;
-        const double px = gx.at<float>(y, x), py = gy.at<float>(y, x);
-        a += px * px;
-        b += px * py;
-        c += py * py;
-        u += px * r;
-        v += py * r;
-      }
-    const double det = a * c - b * b;
-    if (!(det > 1e-12 * (a + c) * (a + c)) || a + c <= 0) return {0, 0};
-    // J ~ W - grad(W) . delta, so delta = -(G'G)^-1 G'r.
-    const cv::Point2d step(-(c * u - b * v) / det, -(a * v - b * u) / det);
-    d += step;
-    if (std::hypot(d.x, d.y) > 3) return {0, 0};  // not a sub-pixel misfit: leave it alone
-    if (std::hypot(step.x, step.y) < 0.01) break;
-  }
-  return d;
-}
-
-}  // namespace
 
 cv::Mat normaliseCrop(const cv::Mat& crop) {
   cv::Mat f;
@@ -154,130 +33,26 @@ cv::Mat pixelMedian(const std::vector<const cv::Mat*>& images) {
   if (images.empty()) return {};
   const cv::Mat& first = *images.front();
   cv::Mat out(first.size(), CV_32F);
-  std::vector<float> v(images.size());
-  for (int y = 0; y < first.rows; ++y)
+  const std::size_t n = images.size();
+  std::vector<float> v(n);
+  std::vector<const float*> rows(n);
+  const auto mid = v.begin() + static_cast<std::ptrdiff_t>(n / 2);
+  for (int y = 0; y < first.rows; ++y) {
+    for (std::size_t i = 0; i < n; ++i) rows[i] = images[i]->ptr<float>(y);
+    float* o = out.ptr<float>(y);
     for (int x = 0; x < first.cols; ++x) {
-      for (std::size_t i = 0; i < images.size(); ++i) v[i] = images[i]->at<float>(y, x);
-      auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
+      for (std::size_t i = 0; i < n; ++i) v[i] = rows[i][x];
       std::nth_element(v.begin(), mid, v.end());
-      out.at<float>(y, x) = *mid;
+      o[x] = *mid;
     }
+  }
   return out;
 }
 
 BackgroundModel BackgroundModel::learn(const std::vector<std::vector<cv::Mat>>& samples,
                                        double cupX, double cupY, const BackgroundOptions& o) {
-  BackgroundModel m;
-  const std::size_t traps = samples.size();
-  m.backgrounds_.resize(traps);
-  m.sources_.assign(traps, Source::Fallback);
-  m.empties_.assign(traps, {});
-  m.offsets_.assign(traps, {0, 0});
-  cv::Size size;
-  for (const auto& t : samples)
-    if (!t.empty()) size = t.front().size();
-  if (size.area() == 0) {
-    m.quality_ = Quality::NoEmptyTrap;
-    return m;
-  }
-
-  // Noise floor: consecutive samples of a trap differ only by noise in the crop border
-  // (medium), apart from the odd passing cell, hence the median.
-  const cv::Mat border = borderMask(size, 4);
-  std::vector<cv::Point> borderPixels, disk;
-  for (int y = 0; y < size.height; ++y)
-    for (int x = 0; x < size.width; ++x) {
-      if (border.at<uchar>(y, x)) borderPixels.push_back({x, y});
-      const double dx = x - cupX, dy = y - cupY;
-      if (dx * dx + dy * dy <= o.cupRadiusPx * o.cupRadiusPx) disk.push_back({x, y});
-    }
-  const double sigma = 1.0;
-  std::vector<double> floors;
-  for (const auto& t : samples)
-    for (std::size_t k = 1; k < t.size(); ++k)
-      floors.push_back(meanAbs(diskVector(t[k - 1], borderPixels, sigma),
-                               diskVector(t[k], borderPixels, sigma)));
-  m.floor_ = std::max(1e-9, medianOf(floors));
-
-  // Each sample's k-th nearest distance to samples of other traps.
-  struct Sample {
-    std::size_t trap;
-    int index;
-    std::vector<float> v;
-  };
-  std::vector<Sample> all;
-  for (std::size_t t = 0; t < traps; ++t)
-    for (std::size_t k = 0; k < samples[t].size(); ++k)
-      all.push_back({t, static_cast<int>(k), diskVector(samples[t][k], disk, sigma)});
-  std::vector<double> knn(all.size(), std::numeric_limits<double>::infinity());
-  const int workers = std::max(
-      1, o.threads > 0 ? o.threads : static_cast<int>(std::thread::hardware_concurrency()));
-  std::atomic<std::size_t> next{0};
-  auto work = [&] {
-    std::vector<double> d;
-    for (std::size_t i = next++; i < all.size(); i = next++) {
-      d.clear();
-      for (std::size_t j = 0; j < all.size(); ++j)
-        if (all[j].trap != all[i].trap) d.push_back(meanAbs(all[i].v, all[j].v));
-      const auto k = std::min<std::size_t>(static_cast<std::size_t>(o.neighbours), d.size());
-      if (k == 0) continue;
-      std::nth_element(d.begin(), d.begin() + static_cast<std::ptrdiff_t>(k - 1), d.end());
-      knn[i] = d[k - 1];
-    }
-  };
-  std::vector<std::thread> pool;
-  for (int w = 1; w < workers; ++w) pool.emplace_back(work);
-  work();
-  for (auto& th : pool) th.join();
-
-  // Empty samples form the low mode of log k-NN distance; occupied ones sit well above.
-  // The split is Otsu's threshold (Otsu 1979) on the log distances; it is accepted only
-  // when the low mode is near the noise floor and clearly apart from the rest.
-  const double limit = emptyLimit(knn, m.floor_, o);
-  std::vector<const cv::Mat*> selected;
-  for (std::size_t i = 0; i < all.size(); ++i)
-    if (knn[i] <= limit) {
-      m.empties_[all[i].trap].push_back(all[i].index);
-      selected.push_back(&samples[all[i].trap][static_cast<std::size_t>(all[i].index)]);
-    }
-  m.emptySamples_ = static_cast<int>(selected.size());
-  cv::Mat lattice;
-  if (selected.size() >= 3) {
-    lattice = pixelMedian(selected);
-  } else {
-    m.quality_ = Quality::NoEmptyTrap;
-    std::vector<const cv::Mat*> every;
-    for (const auto& t : samples)
-      for (const auto& s : t) every.push_back(&s);
-    lattice = pixelMedian(every);
-  }
-  for (std::size_t t = 0; t < traps; ++t) {
-    if (static_cast<int>(m.empties_[t].size()) >= o.minOwnEmpty) {
-      std::vector<const cv::Mat*> own;
-      for (int k : m.empties_[t]) own.push_back(&samples[t][static_cast<std::size_t>(k)]);
-      m.backgrounds_[t] = pixelMedian(own);
-      m.sources_[t] = Source::Own;
-    } else {
-      m.backgrounds_[t] = lattice;
-      if (!samples[t].empty()) {
-        std::vector<const cv::Mat*> own;
-        for (const auto& s : samples[t]) own.push_back(&s);
-        const cv::Point2d d = latticeOffset(lattice, pixelMedian(own));
-        m.offsets_[t] = d;
-        if (d != cv::Point2d(0, 0)) {
-          // Into a fresh image: the traps without a background of their own share the
-          // lattice's pixels.
-          const cv::Mat M = (cv::Mat_<double>(2, 3) << 1, 0, d.x, 0, 1, d.y);
-          cv::Mat carried;
-          cv::warpAffine(lattice, carried, M, lattice.size(), cv::INTER_LINEAR,
-                         cv::BORDER_REPLICATE);
-          m.backgrounds_[t] = carried;
-        }
-      }
-      m.sources_[t] = m.quality_ == Quality::Good ? Source::Lattice : Source::Fallback;
-    }
-  }
-  return m;
+  const BackgroundSearch search(samples, o);
+  return search.model(search.empties(cupX, cupY));
 }
 
 }  // namespace budledger::measure

@@ -54,6 +54,7 @@ class BackgroundModel {
   cv::Point2d offset(std::size_t trap) const { return offsets_.at(trap); }
 
  private:
+  friend class BackgroundSearch;  // builds the model (background_search.h)
   std::vector<cv::Mat> backgrounds_;
   std::vector<Source> sources_;
   std::vector<std::vector<int>> empties_;

@@ -1,5 +1,7 @@
 #include "core/measure/segment.h"
 
+#include "core/measure/small_morphology.h"
+
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
@@ -108,8 +110,9 @@ cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double thresho
       peak[i] = std::max(peak[i], v[x]);
     }
   }
-  const cv::Mat disk3 = cv::getStructuringElement(cv::MORPH_ELLIPSE, {3, 3});
-  const cv::Mat disk7 = cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7});
+  static const StructuringElement disk3(cv::getStructuringElement(cv::MORPH_ELLIPSE, {3, 3}));
+  static const StructuringElement disk7(cv::getStructuringElement(cv::MORPH_ELLIPSE, {7, 7}));
+  thread_local cv::Mat scratch;
   const cv::Rect frame(0, 0, diff.cols, diff.rows);
   std::vector<int> histogram(32);
   for (int i = 1; i < n; ++i) {
@@ -148,7 +151,7 @@ cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double thresho
           h[x] = v[x] > level ? 255 : 0;
         }
     }
-    cv::morphologyEx(full, full, cv::MORPH_CLOSE, disk3);
+    smallClose(full, disk3, scratch);
     fillHoles(full);
     // The cut is for the blurred fringe along the outside. Deep inside the object a
     // weak interior (a bright rim's pale centre) stays: cut there, it can open onto
@@ -157,15 +160,15 @@ cv::Mat outlineMask(const cv::Mat& diff, double sd, int polarity, double thresho
     cv::Mat depth;
     cv::distanceTransform(full, depth, cv::DIST_L2, cv::DIST_MASK_3);
     half |= depth > kFringePx;
-    cv::morphologyEx(half, half, cv::MORPH_CLOSE, disk3);
+    smallClose(half, disk3, scratch);
     fillHoles(half);
     cv::Mat& object = 2 * cv::countNonZero(half) >= cv::countNonZero(full) ? half : full;
     const int area = cv::countNonZero(object);
     if (box.area() >= 30 && area < 0.45 * tight.area()) {
-      cv::morphologyEx(object, object, cv::MORPH_CLOSE, disk7);
+      smallClose(object, disk7, scratch);
       fillHoles(object);
     }
-    cv::morphologyEx(object, object, cv::MORPH_OPEN, disk3);
+    smallOpen(object, disk3, scratch);
     cv::Mat target = out(box);
     target |= object;
   }
@@ -278,7 +281,8 @@ int splitCells(const cv::Mat& mask, const SegmentParams& params, cv::Mat& labels
   // Peaks: maxima of the distance map in a 5x5 window; a plateau of equal maxima is
   // one peak (its first pixel).
   cv::Mat dilated;
-  cv::dilate(dist, dilated, cv::getStructuringElement(cv::MORPH_RECT, {5, 5}));
+  static const StructuringElement square5(cv::getStructuringElement(cv::MORPH_RECT, {5, 5}));
+  smallDilate(dist, dilated, square5);
   const float minPeak = 1.5f;
   cv::Mat peakMask(dist.size(), CV_8U, cv::Scalar(0));
   for (int y = 0; y < dist.rows; ++y) {

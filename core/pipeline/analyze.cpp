@@ -228,13 +228,23 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
     ctx.intervalMin = out.intervalMin.value_or(0);
     ctx.pixelUm = out.pixelUm.value_or(0);
     for (FrameStage* s : stages) s->begin(ctx);
-    std::vector<cv::Mat> nearest, linear;
-    const bool wantNearest = std::any_of(stages.begin(), stages.end(), [](FrameStage* s) {
-      return s->sampling() == traps::CropSampling::Nearest;
-    });
-    const bool wantLinear = std::any_of(stages.begin(), stages.end(), [](FrameStage* s) {
-      return s->sampling() == traps::CropSampling::Linear;
-    });
+    // One set of crops per way of cutting them that some stage asked for.
+    struct Cut {
+      traps::CropSampling sampling;
+      cv::Rect window;
+      std::vector<cv::Mat> crops;
+    };
+    std::vector<Cut> cuts;
+    std::vector<std::size_t> cutOf;  // per stage
+    for (FrameStage* s : stages) {
+      const traps::CropSampling sampling = s->sampling();
+      const cv::Rect window = s->cropWindow();
+      auto it = std::find_if(cuts.begin(), cuts.end(), [&](const Cut& c) {
+        return c.sampling == sampling && c.window == window;
+      });
+      if (it == cuts.end()) it = cuts.insert(cuts.end(), Cut{sampling, window, {}});
+      cutOf.push_back(static_cast<std::size_t>(it - cuts.begin()));
+    }
     io::FrameStream stream(source, {options.readAhead, 0, frames});
     int index = 0;
     cv::Point2d newRaw0 = raw0;
@@ -254,17 +264,15 @@ PositionAnalysis analyzeFrames(io::FrameSource& source, const AnalyzeOptions& op
         d.dy += raw0.y - newRaw0.y;
       }
       if (!stages.empty()) {
-        if (wantNearest)
-          traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Nearest, nearest);
-        if (wantLinear)
-          traps::cropAll(*frame, out.layout, {d.dx, d.dy}, traps::CropSampling::Linear, linear);
-        for (FrameStage* s : stages) {
+        for (Cut& c : cuts)
+          traps::cropAll(*frame, out.layout, {d.dx, d.dy}, c.sampling, c.crops, c.window);
+        for (std::size_t k = 0; k < stages.size(); ++k) {
           FrameView view;
           view.frame = index;
           view.image = frame;
           view.drift = &d;
-          view.crops = s->sampling() == traps::CropSampling::Nearest ? &nearest : &linear;
-          s->frame(view);
+          view.crops = &cuts[cutOf[k]].crops;
+          stages[k]->frame(view);
         }
       }
       progress(stage, static_cast<double>(index + 1) / frames);

@@ -39,7 +39,8 @@ struct FrameView {
   int frame = 0;
   const cv::Mat* image = nullptr;  // the whole frame as decoded
   const registration::FrameDrift* drift = nullptr;
-  const std::vector<cv::Mat>* crops = nullptr;  // one per trap, in layout order (= trap id)
+  // One per trap, in layout order (= trap id): the stage's cropWindow() of the crop box.
+  const std::vector<cv::Mat>* crops = nullptr;
 };
 
 class FrameStage {
@@ -48,6 +49,9 @@ class FrameStage {
   virtual std::string_view name() const = 0;
   // How the crops handed to frame() are resampled.
   virtual traps::CropSampling sampling() const { return traps::CropSampling::Nearest; }
+  // The part of the layout's crop box (in its pixels) the stage looks at, asked after
+  // begin(); empty for all of it. Cutting only that part saves resampling the rest.
+  virtual cv::Rect cropWindow() const { return {}; }
   virtual void begin(const PositionContext& context) = 0;
   virtual void frame(const FrameView& view) = 0;
   virtual void commit(store::Project& project, const PositionContext& context) = 0;

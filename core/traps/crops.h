@@ -19,14 +19,15 @@ enum class CropSampling {
 };
 
 // The crop `box` (relative to `centre`) of a frame in which frame-0 content
-// has moved by `drift`.
+// has moved by `drift`. With a non-empty `window` (in the box's pixels) only
+// that part of the box is cut, pixel for pixel as the whole box would have it.
 void cropAt(const cv::Mat& frame, cv::Point2d centre, cv::Point2d drift, const cv::Rect& box,
-            CropSampling sampling, cv::Mat& out);
+            CropSampling sampling, cv::Mat& out, const cv::Rect& window = {});
 
 // Crops of every trap of `layout` in one frame, in trap order; `out` is
-// resized and its buffers reused.
+// resized and its buffers reused. `window` as for cropAt().
 void cropAll(const cv::Mat& frame, const TrapLayout& layout, cv::Point2d drift,
-             CropSampling sampling, std::vector<cv::Mat>& out);
+             CropSampling sampling, std::vector<cv::Mat>& out, const cv::Rect& window = {});
 
 // Random access to the crop of any trap at any frame, for the workstation's
 // thumbnails and the engine's second looks: decodes a frame only when it

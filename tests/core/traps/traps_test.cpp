@@ -254,6 +254,28 @@ TEST(Crops, FollowTheDriftWholePixelAndSubPixel) {
   EXPECT_EQ(crop.at<std::uint16_t>(8, 10), frame.at<std::uint16_t>(6, 7));
 }
 
+TEST(Crops, AWindowIsThatPartOfTheWholeCropPixelForPixel) {
+  // The engine cuts only its window in the second pass; its measurements must not
+  // change, so the window must equal the whole crop's pixels exactly, inside the frame,
+  // across its edge, at sub-pixel drifts of either sign, and for both samplings.
+  cv::RNG rng(11);
+  cv::Mat frame(90, 110, CV_16U);
+  rng.fill(frame, cv::RNG::UNIFORM, 0, 65535);
+  const cv::Rect box(-20, -15, 41, 31);
+  const cv::Rect window(7, 4, 19, 22);
+  for (const cv::Point2d centre : {cv::Point2d(55, 45), cv::Point2d(8, 80), cv::Point2d(100, 6)})
+    for (const cv::Point2d drift : {cv::Point2d(0, 0), cv::Point2d(3.37, -2.81),
+                                    cv::Point2d(-0.5, 0.25), cv::Point2d(-7.93, 11.06)})
+      for (const auto sampling : {CropSampling::Nearest, CropSampling::Linear}) {
+        cv::Mat whole, part;
+        cropAt(frame, centre, drift, box, sampling, whole);
+        cropAt(frame, centre, drift, box, sampling, part, window);
+        ASSERT_EQ(part.size(), window.size());
+        EXPECT_EQ(cv::countNonZero(part != whole(window)), 0)
+            << centre << " " << drift << " " << static_cast<int>(sampling);
+      }
+}
+
 TEST(TemporalMedianTest, MatchesASortAndRemovesPassingCells) {
   cv::RNG rng(4);
   const cv::Size size(37, 23);
