@@ -213,37 +213,42 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   parallelFor(N, options.threads, [&](std::size_t i) {
     noiseMaps[i] = measure::noiseMap(background.background(i), noise, shift, seg.smoothSigmaPx);
   });
-  // Where mothers sit and how big they are, from the samples: the seat can be more than
-  // a mother radius off the lattice's cup centre, and cell size varies with strain and
-  // optics. Mothers are looked for within two expected radii of it.
+  // Where mothers sit and how big they are, from the samples: the seat can be a mother
+  // radius or more off the lattice's cup centre, and cell size varies with strain and
+  // optics. Mothers are looked for within 1.5 expected radii of the seat so far, and the
+  // seat moves to their median centre, a few rounds (each under 1.5 radii), so
+  // that it can travel farther than one search reaches without a wider search picking
+  // up neighbours and posts.
   measure::CropGeometry seatGeometry = geometry;
   measure::SegmentParams searching = seg;
-  searching.seatRadiusFactor = 2.0 * seg.seatRadiusFactor;
-  std::vector<std::vector<std::array<double, 3>>> trapMothers(N);  // area, x, y
-  parallelFor(N, options.threads, [&](std::size_t i) {
-    for (std::size_t k = 1; k < samples[i].size(); k += 2) {
-      const auto r = measure::segmentCrop(samples[i][k], background.background(i), noise, geometry,
-                                          searching, &noiseMaps[i]);
-      if (r.mother < 0) continue;
-      const auto& m = r.cells[static_cast<std::size_t>(r.mother)];
-      trapMothers[i].push_back({m.areaPx, m.x, m.y});
-    }
-  });
-  std::vector<double> motherAreas, seatX, seatY;
-  for (const auto& v : trapMothers)
-    for (const auto& m : v) {
-      motherAreas.push_back(m[0]);
-      seatX.push_back(m[1]);
-      seatY.push_back(m[2]);
-    }
-  if (motherAreas.size() >= 5) {
+  searching.seatRadiusFactor = 1.5 * seg.seatRadiusFactor;
+  for (int round = 0; round < 3; ++round) {
+    std::vector<std::vector<std::array<double, 3>>> trapMothers(N);  // area, x, y
+    parallelFor(N, options.threads, [&](std::size_t i) {
+      for (std::size_t k = 1; k < samples[i].size(); k += 2) {
+        const auto r = measure::segmentCrop(samples[i][k], background.background(i), noise,
+                                            seatGeometry, searching, &noiseMaps[i]);
+        if (r.mother < 0) continue;
+        const auto& m = r.cells[static_cast<std::size_t>(r.mother)];
+        trapMothers[i].push_back({m.areaPx, m.x, m.y});
+      }
+    });
+    std::vector<double> motherAreas, seatX, seatY;
+    for (const auto& v : trapMothers)
+      for (const auto& m : v) {
+        motherAreas.push_back(m[0]);
+        seatX.push_back(m[1]);
+        seatY.push_back(m[2]);
+      }
+    if (motherAreas.size() < 5) break;
     seg.motherRadiusPx = std::clamp(std::sqrt(median(motherAreas) / std::numbers::pi),
                                     0.6 * startRadius, 1.6 * startRadius);
-    const double dx = median(seatX) - geometry.cupX, dy = median(seatY) - geometry.cupY;
-    if (std::hypot(dx, dy) < 1.5 * seg.motherRadiusPx) {
-      seatGeometry.cupX += dx;
-      seatGeometry.cupY += dy;
-    }
+    const double dx = median(seatX) - seatGeometry.cupX, dy = median(seatY) - seatGeometry.cupY;
+    const double move = std::hypot(dx, dy);
+    if (move >= 1.5 * seg.motherRadiusPx) break;
+    seatGeometry.cupX += dx;
+    seatGeometry.cupY += dy;
+    if (move < 0.5) break;  // settled
   }
   out.calibration = {{"noise_sd", noise},
                      {"cup_disk_px", {cup.x, cup.y}},
