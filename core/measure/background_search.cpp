@@ -1,30 +1,16 @@
 #include "core/measure/background_search.h"
 
 #include <algorithm>
-#include <atomic>
 #include <cmath>
 #include <limits>
 #include <opencv2/imgproc.hpp>
-#include <thread>
+
+#include "core/base/parallel_for.h"
 
 namespace budledger::measure {
 namespace {
 
 constexpr double kSmoothSigma = 1.0;  // a fraction of a cell radius: noise averages out
-
-template <typename Fn>
-void parallelFor(std::size_t n, int threads, Fn&& fn) {
-  int workers = threads > 0 ? threads : static_cast<int>(std::thread::hardware_concurrency());
-  workers = std::clamp(workers, 1, static_cast<int>(std::max<std::size_t>(1, n)));
-  std::atomic<std::size_t> next{0};
-  auto run = [&] {
-    for (std::size_t i = next++; i < n; i = next++) fn(i);
-  };
-  std::vector<std::thread> pool;
-  for (int w = 1; w < workers; ++w) pool.emplace_back(run);
-  run();
-  for (auto& th : pool) th.join();
-}
 
 double medianOf(std::vector<double> v) {
   if (v.empty()) return 0;

@@ -1,31 +1,15 @@
 #include "core/propose/proposer.h"
 
 #include <algorithm>
-#include <atomic>
 #include <cmath>
 #include <map>
 #include <stdexcept>
 #include <thread>
 
+#include "core/base/parallel_for.h"
+
 namespace budledger::propose {
 namespace {
-
-template <typename Fn>
-void parallelFor(std::size_t n, int threads, Fn&& fn) {
-  int workers = threads > 0 ? threads : static_cast<int>(std::thread::hardware_concurrency());
-  workers = std::clamp(workers, 1, static_cast<int>(std::max<std::size_t>(1, n)));
-  if (workers == 1) {
-    for (std::size_t i = 0; i < n; ++i) fn(i, 0);
-    return;
-  }
-  std::atomic<std::size_t> next{0};
-  std::vector<std::thread> pool;
-  for (int w = 0; w < workers; ++w)
-    pool.emplace_back([&, w] {
-      for (std::size_t i = next++; i < n; i = next++) fn(i, w);
-    });
-  for (auto& th : pool) th.join();
-}
 
 // Which event kinds an arc stands for (a separation with an immediate bud is two).
 std::vector<EventKind> eventsOf(Transition t) {
