@@ -72,7 +72,9 @@ PositionCalls proposePosition(int position, const std::vector<int>& trapIds,
                               const std::vector<TrapEvidence>& evidence,
                               const ProposeOptions& options, const Progress& progress = {});
 
-// Decodes one trap under a fixed model (no re-estimation).
+// Decodes one trap under a fixed model (no re-estimation). `confidenceTemper` scales
+// the log-likelihoods for the posteriors only (ProposeOptions::confidenceTemper); 1 gives
+// the model's exact posteriors.
 TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
                      const EmissionParams& emission, const TrapEvidence& evidence,
                      const ReviewRules& review, const MorphBaseline* baseline = nullptr,
