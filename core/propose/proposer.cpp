@@ -110,12 +110,12 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
   const int T = static_cast<int>(evidence.size());
   if (T == 0) return out;
   const int S = model.stateCount();
-  const auto em = emissionLogLikelihood(model, emission, evidence, baseline);
+  auto em = emissionLogLikelihood(model, emission, evidence, baseline);
   const SparseHmm& hmm = model.hmm();
   out.path = hmm.viterbi(em, T);
-  std::vector<double> tempered = em;
-  for (double& v : tempered) v *= confidenceTemper;
-  const auto post = hmm.forwardBackward(tempered, T);
+  // The calls are made; the posteriors read the tempered likelihood.
+  for (double& v : em) v *= confidenceTemper;
+  const auto post = hmm.forwardBackward(em, T);
 
   out.pLive.resize(static_cast<std::size_t>(T));
   out.pBudded.resize(static_cast<std::size_t>(T));
