@@ -142,23 +142,40 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   cv::Point2d cup = in.cup;
   const measure::BackgroundSearch search(samples, bo);
   auto empties = search.empties(cup.x, cup.y);
-  if (measure::countSamples(empties) < measure::BackgroundSearch::kMinEmpty) {
-    // The lattice's cup centre can sit a few pixels off the seat (it depends on the
-    // trap shape and the optics); a cup disk straddling post edges then sees their
-    // sub-pixel residuals and no two empty traps look alike. Empty traps are alike
-    // wherever the disk avoids the edges, so the disk that finds the most of them,
-    // within a mother radius of the guess, is taken. Only the disk moves: the samples
-    // are smoothed once, and backgrounds are built for the disk kept.
-    for (double fy : {-1.0, -0.5, 0.0, 0.5, 1.0})
-      for (double fx : {-1.0, -0.5, 0.0, 0.5, 1.0}) {
-        if (fx == 0 && fy == 0) continue;
-        const cv::Point2d c(in.cup.x + fx * startRadius, in.cup.y + fy * startRadius);
-        auto e = search.empties(c.x, c.y);
-        if (measure::countSamples(e) > measure::countSamples(empties)) {
+  // The lattice's cup centre can sit a few pixels off the seat (it depends on the trap
+  // shape and the optics). A cup disk straddling post edges sees their sub-pixel
+  // residuals, and no two empty traps look alike (too few empties); a disk out in the
+  // open medium cannot tell an occupied trap from an empty one (too many). Over the
+  // cup itself the count is low and flat. So when the guess's count is either
+  // implausible, disks within two mother radii are tried and, of those with a
+  // plausible count, the one that finds the fewest empties is kept (nearest the guess
+  // among equals); if no disk of the usual size qualifies, smaller disks are tried,
+  // which fit between posts that a larger one straddles. With none, the guess stays.
+  const int sampled = static_cast<int>(N) * S;
+  const int fewest = std::max(measure::BackgroundSearch::kMinEmpty, sampled / 50);
+  const int most = sampled * 3 / 10;
+  const int found = measure::countSamples(empties);
+  if (found < fewest || found > most) {
+    bool kept = false;
+    int keptCount = 0;
+    double keptDistance = 0;
+    for (double radius : {bo.cupRadiusPx, 0.8 * startRadius}) {
+      for (double fy = -2.0; fy <= 2.0; fy += 0.5)
+        for (double fx = -2.0; fx <= 2.0; fx += 0.5) {
+          const cv::Point2d c(in.cup.x + fx * startRadius, in.cup.y + fy * startRadius);
+          auto e = search.empties(c.x, c.y, radius);
+          const int n = measure::countSamples(e);
+          const double d = std::hypot(fx, fy);
+          if (n < fewest || n > most || (kept && (n > keptCount || (n == keptCount && d >= keptDistance))))
+            continue;
+          kept = true;
+          keptCount = n;
+          keptDistance = d;
           empties = std::move(e);
           cup = c;
         }
-      }
+      if (kept) break;
+    }
   }
   const auto background = search.model(std::move(empties));
   measure::SegmentParams seg = options.segment;

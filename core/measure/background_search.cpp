@@ -163,12 +163,14 @@ BackgroundSearch::BackgroundSearch(const std::vector<std::vector<cv::Mat>>& samp
   floor_ = std::max(1e-9, medianOf(floors));
 }
 
-std::vector<std::vector<int>> BackgroundSearch::empties(double cupX, double cupY) const {
+std::vector<std::vector<int>> BackgroundSearch::empties(double cupX, double cupY,
+                                                         double radiusPx) const {
   const std::size_t traps = samples_.size();
   std::vector<std::vector<int>> out(traps);
   if (size_.area() == 0) return out;
   std::vector<cv::Point> disk;
-  const double r2 = options_.cupRadiusPx * options_.cupRadiusPx;
+  const double r = radiusPx > 0 ? radiusPx : options_.cupRadiusPx;
+  const double r2 = r * r;
   for (int y = 0; y < size_.height; ++y)
     for (int x = 0; x < size_.width; ++x) {
       const double dx = x - cupX, dy = y - cupY;

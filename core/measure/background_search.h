@@ -28,7 +28,8 @@ class BackgroundSearch {
 
   // Samples judged empty (indexes into each trap's samples) with the cup disk
   // centred at (cupX, cupY), crop pixels.
-  std::vector<std::vector<int>> empties(double cupX, double cupY) const;
+  // radiusPx > 0 replaces the options' cup radius.
+  std::vector<std::vector<int>> empties(double cupX, double cupY, double radiusPx = 0) const;
   // The backgrounds that follow from a choice of empty samples.
   BackgroundModel model(std::vector<std::vector<int>> empties) const;
 
