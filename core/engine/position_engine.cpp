@@ -7,7 +7,9 @@
 #include <atomic>
 #include <chrono>
 #include <cmath>
+#include <limits>
 #include <numbers>
+#include <utility>
 
 #include "budledger/version.h"
 #include "core/base/parallel_for.h"
@@ -156,25 +158,20 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   const int most = sampled * 3 / 10;
   const int found = measure::countSamples(empties);
   if (found < fewest || found > most) {
-    bool kept = false;
-    int keptCount = 0;
-    double keptDistance = 0;
+    // Fewest empties first, then nearest the guess (grid units).
+    std::pair<int, double> best{std::numeric_limits<int>::max(), 0.0};
     for (double radius : {bo.cupRadiusPx, 0.8 * startRadius}) {
       for (double fy = -2.0; fy <= 2.0; fy += 0.5)
         for (double fx = -2.0; fx <= 2.0; fx += 0.5) {
           const cv::Point2d c(in.cup.x + fx * startRadius, in.cup.y + fy * startRadius);
           auto e = search.empties(c.x, c.y, radius);
-          const int n = measure::countSamples(e);
-          const double d = std::hypot(fx, fy);
-          if (n < fewest || n > most || (kept && (n > keptCount || (n == keptCount && d >= keptDistance))))
-            continue;
-          kept = true;
-          keptCount = n;
-          keptDistance = d;
+          const std::pair<int, double> score{measure::countSamples(e), std::hypot(fx, fy)};
+          if (score.first < fewest || score.first > most || score >= best) continue;
+          best = score;
           empties = std::move(e);
           cup = c;
         }
-      if (kept) break;
+      if (best.first <= most) break;
     }
   }
   const auto background = search.model(std::move(empties));
