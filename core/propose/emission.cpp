@@ -204,10 +204,16 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
         if (!zKnown[jj]) continue;
         const double flat = 1.0 / (16 * params.morphLiveSigma[jj]);
         double dens = flat;
-        if (deadAge > 0)
+        if (deadAge > 0) {
           dens = gaussian(z[jj], params.morphDeadMean[static_cast<std::size_t>(deadAge - 1)][jj],
                           params.morphDeadSigma[jj]);
-        else if (model.isLive(s))
+          // Death moves each feature one way (the sign of the oldest age's change). A
+          // deviation the other way, such as a newcomer smaller than the mothers around
+          // her, is no sign of death: a dead state may not explain it better than a live
+          // one (the broader dead spread otherwise called newcomers dead on arrival).
+          if (z[jj] * params.morphDeadMean.back()[jj] < 0)
+            dens = std::min(dens, gaussian(z[jj], 0.0, params.morphLiveSigma[jj]));
+        } else if (model.isLive(s))
           dens = gaussian(z[jj], 0.0, params.morphLiveSigma[jj]);
         valid += std::log(std::max(dens, 1e-300));
         flatAll += std::log(flat);

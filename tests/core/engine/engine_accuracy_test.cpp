@@ -60,5 +60,18 @@ TEST(EngineAccuracy, CupDiskFoundWhenTheGuessSeesNoEmptyTrap) {
   EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.9);
 }
 
+// Newcomers washed into emptied traps are smaller than the mothers already seated.
+// Their morphology deviates from the position's live reference the other way from the
+// swelling at death, and was read as death: on this position 6 of 51 tenures split
+// into short dead records (death F1 0.08). Deviations the other way from death are no
+// sign of it (emission.cpp).
+TEST(EngineAccuracy, NewcomersAreNotDeadOnArrival) {
+  const auto s = testing::simulateAndScore(small(8001, demo::Difficulty::Normal, 216), "newcomer");
+  std::cerr << evaluate::toMarkdown(s);
+  EXPECT_GE(s.kind(EventKind::Arrival).precision(), 0.9);
+  EXPECT_GE(s.kind(EventKind::Death).f1(), 0.5);
+  EXPECT_GE(static_cast<double>(s.oneRecord) / std::max(1, s.mothers), 0.97);
+}
+
 }  // namespace
 }  // namespace budledger::engine
