@@ -35,7 +35,8 @@ struct EmissionParams {
   std::vector<double> budRatioMean;
   double budRatioSigma = 0.08;
   // Bud ratio where no bud grows: an unbudded mother (near zero, lingering daughters
-  // aside) and a dead one (a last bud that never separates, granules taken for buds).
+  // aside) and a dead one (a last bud that never separates, granules taken for buds;
+  // kept at its starting value, see EmissionStatistics::estimate).
   double budRatioUnbuddedMean = 0.02, budRatioUnbuddedSigma = 0.05;
   double budRatioDeadMean = 0.15, budRatioDeadSigma = 0.2;
   double budRatioRange = 1.5;  // uniform density for the outlier component
@@ -107,7 +108,7 @@ class EmissionStatistics {
   std::array<std::array<double, 4>, kStateGroupCount> occ_{};
   std::array<std::array<double, 2>, kStateGroupCount> dead_{};
   std::vector<double> ratioW_, ratioSum_, ratioSq_;
-  std::array<double, 2> otherW_{}, otherSum_{}, otherSq_{};     // unbudded, dead
+  double unbuddedW_ = 0, unbuddedSum_ = 0, unbuddedSq_ = 0;
   std::array<double, 2> departW_{}, departSum_{}, departSq_{};  // just separated, other
   std::array<double, kMorphCount> liveW_{}, liveSq_{};
   std::vector<std::array<double, kMorphCount>> deadW_, deadSum_, deadSq_;
