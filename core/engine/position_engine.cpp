@@ -86,6 +86,7 @@ nlohmann::json parametersJson(const EngineOptions& o) {
            {{"min_budded_min", c.minBuddedMin},
             {"mean_unbudded_min", c.meanUnbuddedMin},
             {"mean_budded_extra_min", c.meanBuddedExtraMin},
+            {"budded_tail_stages", c.buddedTailStages},
             {"immediate_rebud", c.immediateRebud},
             {"arrival_per_min", c.arrivalPerMin},
             {"washout_per_min", c.washoutPerMin},

@@ -26,6 +26,9 @@ CycleModel::CycleModel(const CycleParams& p)
     : params_(p),
       m_(std::max(2, static_cast<int>(std::floor(p.minBuddedMin / p.intervalMin + 1e-9)))),
       k_(std::max(1, static_cast<int>(std::ceil(p.deathOnsetMin / p.intervalMin - 1e-9)))),
+      // The first two bud ages stay single frames (they are the groups BudNew and
+      // BudYoung, whose occupancy rows are learned as such).
+      tail_(std::max(1, std::min(p.buddedTailStages, m_ - 2))),
       hmm_(m_ + 5 + k_) {
   if (!(p.intervalMin > 0)) throw std::invalid_argument("frame interval must be positive");
   const double dt = p.intervalMin;
@@ -34,7 +37,11 @@ CycleModel::CycleModel(const CycleParams& p)
   const double die = perFrame(p.deathPerMin, dt);
   const double gone = perFrame(p.deadGonePerMin, dt);
   const double bud = leaveProbability(p.meanUnbuddedMin, dt);
-  const double sep = leaveProbability(p.meanBuddedExtraMin + dt, dt);
+  // The budded time beyond the minimum is spread over the last `tail_` ages, each
+  // left with the same probability (a sum of geometric stays, like an Erlang
+  // duration), so its spread is 1/sqrt(tail) of its mean.
+  const double extraFrames = std::max(0.0, p.meanBuddedExtraMin) / dt / tail_;
+  const double sep = std::clamp(1.0 / (1.0 + extraFrames), 1e-4, 1.0 - 1e-4);
   const double rebud = std::clamp(p.immediateRebud, 0.0, 1.0);
   const double buddedArrival = std::clamp(p.arrivalBudded, 0.0, 1.0);
 
@@ -63,11 +70,16 @@ CycleModel::CycleModel(const CycleParams& p)
   arc(j1, buddedState(std::min(2, m_)), 1 - leaveLive, T::Advance);
   arc(j1, deadState(), die, T::Death);
   arc(j1, vacatedState(), wash, T::Washout);
-  // Budded chain: forced advance up to age m, then stay or separate.
+  // Budded chain: forced advance through the first ages, then each of the last `tail_`
+  // ages stays or moves on, the last to a separation.
   for (int k = 1; k <= m_; ++k) {
     const int s = buddedState(k);
-    if (k < m_) {
+    const bool inTail = k > m_ - tail_;
+    if (!inTail) {
       arc(s, buddedState(k + 1), 1 - leaveLive, T::Advance);
+    } else if (k < m_) {
+      arc(s, s, (1 - leaveLive) * (1 - sep), T::Stay);
+      arc(s, buddedState(k + 1), (1 - leaveLive) * sep, T::Advance);
     } else {
       arc(s, s, (1 - leaveLive) * (1 - sep), T::Stay);
       arc(s, j0, (1 - leaveLive) * sep * (1 - rebud), T::Separation);

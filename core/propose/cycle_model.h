@@ -1,9 +1,10 @@
 #pragma once
 // CycleModel: the hidden states of one trap over time and how they may follow
 // one another. A trap is empty, or holds a live mother that is unbudded or
-// budded, or holds a dead mother. The budded phase is a forced chain of
+// budded, or holds a dead mother. The budded phase is a chain of
 // `buddedFrames()` states (a division takes at least ~45 min, common
-// practice), the last of which may repeat; death is absorbing for the mother
+// practice), the last `buddedTailStages()` of which may repeat, so the time
+// beyond the minimum is a sum of geometric stays; death is absorbing for the mother
 // (a dead mother can only leave, never bud again). Arcs are tagged with the
 // event they stand for, so decoded paths read directly as events.
 //
@@ -52,6 +53,13 @@ struct CycleParams {
   double minBuddedMin = 45;            // shortest bud-to-separation time
   double meanUnbuddedMin = 15;         // mean time from separation to next bud (G1)
   double meanBuddedExtraMin = 30;      // mean budded time beyond the minimum
+  // That extra time is a sum of this many geometric stays, taken in the last bud ages
+  // (at most all but the first two): cell-cycle phases are regular (CV ~0.15-0.2,
+  // common practice), and one memoryless stay both overstated long budded stretches
+  // and, relative to them, understated ones of the usual length. Two stages (one at
+  // frames of 15 min or more, where the chain has three ages) were chosen on the
+  // validation sets; three were no better at 10-min frames (docs/validation.md).
+  int buddedTailStages = 2;
   double immediateRebud = 0.3;         // share of separations with the next bud in the same frame
   double arrivalPerMin = 1.0 / 2000;   // an empty trap catches a new mother
   double washoutPerMin = 1.0 / 20000;  // a live mother is flushed out
@@ -72,6 +80,7 @@ class CycleModel {
   const CycleParams& params() const { return params_; }
   const SparseHmm& hmm() const { return hmm_; }
   int buddedFrames() const { return m_; }
+  int buddedTailStages() const { return tail_; }  // the last ages, each of which may repeat
   int deadFrames() const { return k_; }
   int stateCount() const { return m_ + 5 + k_; }
 
@@ -95,6 +104,7 @@ class CycleModel {
   CycleParams params_;
   int m_;
   int k_;
+  int tail_;
   SparseHmm hmm_;
 };
 

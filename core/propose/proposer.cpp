@@ -51,7 +51,8 @@ void countTransitions(const CycleModel& model, const SparseHmm::Posteriors& post
                       TransitionCounts& c) {
   const auto& arcs = model.hmm().arcs();
   const std::size_t A = arcs.size();
-  const int tail = model.buddedState(model.buddedFrames());
+  const int lastAge = model.buddedFrames();
+  const int firstTailAge = lastAge - model.buddedTailStages() + 1;
   for (int t = 1; t < frames; ++t) {
     const double* row = &post.arc[static_cast<std::size_t>(t) * A];
     for (std::size_t a = 0; a < A; ++a) {
@@ -60,7 +61,7 @@ void countTransitions(const CycleModel& model, const SparseHmm::Posteriors& post
       if (arc.from == CycleModel::unbuddedState() || arc.from == model.separatedState()) {
         if (tag == Transition::Stay || tag == Transition::Advance) c.unbuddedStay += row[a];
         if (tag == Transition::Bud) c.bud += row[a];
-      } else if (arc.from == tail) {
+      } else if (model.budAge(arc.from) >= firstTailAge && arc.from != model.separatedBudState()) {
         if (tag == Transition::Stay) c.tailStay += row[a];
         if (tag == Transition::Separation) c.separation += row[a];
         if (tag == Transition::SeparationBud) c.separationBud += row[a];
@@ -82,10 +83,12 @@ CycleParams reestimate(const CycleParams& prior, const TransitionCounts& c, doub
   const double unbuddedFrames =
       (c.unbuddedStay + c.bud + weight * priorUnbuddedFrames) / (c.bud + weight);
   p.meanUnbuddedMin = std::max(1.0, unbuddedFrames) * dt;
-  const double priorTailFrames = std::max(1.0, (prior.meanBuddedExtraMin + dt) / dt);
+  // The extra budded time: all stays in the tail ages per budded stretch (one leaves the
+  // tail by separating).
+  const double priorExtraFrames = std::max(0.0, prior.meanBuddedExtraMin / dt);
   const double leaves = c.separation + c.separationBud;
-  const double tailFrames = (c.tailStay + leaves + weight * priorTailFrames) / (leaves + weight);
-  p.meanBuddedExtraMin = std::max(0.0, tailFrames - 1) * dt;
+  const double extraFrames = (c.tailStay + weight * priorExtraFrames) / (leaves + weight);
+  p.meanBuddedExtraMin = std::max(0.0, extraFrames) * dt;
   p.immediateRebud =
       std::clamp((c.separationBud + weight * prior.immediateRebud) / (leaves + weight), 0.01, 0.99);
   const double priorArrival = 1 - std::exp(-prior.arrivalPerMin * dt);
