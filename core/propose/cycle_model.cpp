@@ -26,8 +26,8 @@ CycleModel::CycleModel(const CycleParams& p)
     : params_(p),
       m_(std::max(2, static_cast<int>(std::floor(p.minBuddedMin / p.intervalMin + 1e-9)))),
       k_(std::max(1, static_cast<int>(std::ceil(p.deathOnsetMin / p.intervalMin - 1e-9)))),
-      // The first two bud ages stay single frames (they are the groups BudNew and
-      // BudYoung, whose occupancy rows are learned as such).
+      // Where the chain has more than two ages, the first two stay single frames (they
+      // are the groups BudNew and BudYoung, whose occupancy rows are learned as such).
       tail_(std::max(1, std::min(p.buddedTailStages, m_ - 2))),
       hmm_(m_ + 5 + k_) {
   if (!(p.intervalMin > 0)) throw std::invalid_argument("frame interval must be positive");
