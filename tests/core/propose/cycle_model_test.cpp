@@ -76,9 +76,11 @@ TEST(CycleModel, FirstTwoBudAgesNeverRepeat) {
   const CycleModel model(p);
   EXPECT_EQ(model.buddedFrames(), 3);
   EXPECT_EQ(model.buddedTailStages(), 1);
-  for (const Arc& a : model.hmm().arcs())
-    if (a.from == a.to && model.budAge(a.from) > 0 && a.from != model.separatedBudState())
+  for (const Arc& a : model.hmm().arcs()) {
+    if (a.from == a.to && model.budAge(a.from) > 0 && a.from != model.separatedBudState()) {
       EXPECT_EQ(model.budAge(a.from), 3);
+    }
+  }
 }
 
 }  // namespace
