@@ -74,8 +74,7 @@ CycleModel::CycleModel(const CycleParams& p)
   // ages stays or moves on, the last to a separation.
   for (int k = 1; k <= m_; ++k) {
     const int s = buddedState(k);
-    const bool inTail = k > m_ - tail_;
-    if (!inTail) {
+    if (!inBuddedTail(s)) {
       arc(s, buddedState(k + 1), 1 - leaveLive, T::Advance);
     } else if (k < m_) {
       arc(s, s, (1 - leaveLive) * (1 - sep), T::Stay);

@@ -81,6 +81,10 @@ class CycleModel {
   const SparseHmm& hmm() const { return hmm_; }
   int buddedFrames() const { return m_; }
   int buddedTailStages() const { return tail_; }  // the last ages, each of which may repeat
+  // A budded state in those last ages (the just-separated state with a new bud is not).
+  bool inBuddedTail(int state) const {
+    return state != separatedBudState() && budAge(state) > m_ - tail_;
+  }
   int deadFrames() const { return k_; }
   int stateCount() const { return m_ + 5 + k_; }
 

@@ -51,8 +51,6 @@ void countTransitions(const CycleModel& model, const SparseHmm::Posteriors& post
                       TransitionCounts& c) {
   const auto& arcs = model.hmm().arcs();
   const std::size_t A = arcs.size();
-  const int lastAge = model.buddedFrames();
-  const int firstTailAge = lastAge - model.buddedTailStages() + 1;
   for (int t = 1; t < frames; ++t) {
     const double* row = &post.arc[static_cast<std::size_t>(t) * A];
     for (std::size_t a = 0; a < A; ++a) {
@@ -61,7 +59,7 @@ void countTransitions(const CycleModel& model, const SparseHmm::Posteriors& post
       if (arc.from == CycleModel::unbuddedState() || arc.from == model.separatedState()) {
         if (tag == Transition::Stay || tag == Transition::Advance) c.unbuddedStay += row[a];
         if (tag == Transition::Bud) c.bud += row[a];
-      } else if (model.budAge(arc.from) >= firstTailAge && arc.from != model.separatedBudState()) {
+      } else if (model.inBuddedTail(arc.from)) {
         if (tag == Transition::Stay) c.tailStay += row[a];
         if (tag == Transition::Separation) c.separation += row[a];
         if (tag == Transition::SeparationBud) c.separationBud += row[a];

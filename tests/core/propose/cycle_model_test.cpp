@@ -60,7 +60,8 @@ TEST(CycleModel, BuddedTimeHasTheMeanAsked) {
 }
 
 // A sum of two geometric stays of 1.5 frames each spreads less than one of 3 frames:
-// SD sqrt(2 * 1.5 * 2.5) = 2.74 against sqrt(3 * 4) = 3.46 frames.
+// SD sqrt(2 * 1.5 * 2.5) = 2.74 against sqrt(3 * 4) = 3.46 frames (a geometric count of
+// failures with mean mu has variance mu (1 + mu), a standard result).
 TEST(CycleModel, TwoTailStagesMakeTheBuddedTimeRegular) {
   const Duration one = buddedDuration(CycleModel(tenMinuteFrames(1)));
   const Duration two = buddedDuration(CycleModel(tenMinuteFrames(2)));
