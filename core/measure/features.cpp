@@ -49,17 +49,28 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
     double x = 0, y = 0;
     std::vector<std::pair<int, int>> members;  // (frame, cell)
   };
+  // A lodged daughter is not read the same in every frame, and neither way may restart
+  // the count of how long she has stayed, or she would seldom stay long enough: she is
+  // followed out to twice the attach gap (read a little apart from the mother), and a
+  // track survives `kMissedFrames` frames without her (no reading: flicker, defocus).
+  // Together these found 8 more of 1496 true tenures in one record and cut review
+  // edits by 5% on the validation sets (docs/validation.md).
+  constexpr int kMissedFrames = 2;
+  FeatureContext near = ctx;
+  near.attachGap = 2 * ctx.attachGap;
   std::vector<Track> tracks;
-  std::vector<int> open;  // indexes of tracks seen in the previous frame
+  std::vector<int> open;  // indexes of tracks seen within the last kMissedFrames + 1 frames
   for (int t = 0; t < static_cast<int>(readings.size()); ++t) {
-    std::vector<int> next;
-    for (const auto& a : attachedCells(readings[static_cast<std::size_t>(t)], ctx)) {
+    std::erase_if(open, [&](int k) {
+      return tracks[static_cast<std::size_t>(k)].last < t - 1 - kMissedFrames;
+    });
+    for (const auto& a : attachedCells(readings[static_cast<std::size_t>(t)], near)) {
       int best = -1;
       double bestD = 0.5;  // link within half a mother radius
       for (int k : open) {
-        const double d = std::hypot(tracks[static_cast<std::size_t>(k)].x - a.dx,
-                                    tracks[static_cast<std::size_t>(k)].y - a.dy);
-        if (d < bestD && tracks[static_cast<std::size_t>(k)].last == t - 1) {
+        const Track& tr = tracks[static_cast<std::size_t>(k)];
+        const double d = std::hypot(tr.x - a.dx, tr.y - a.dy);
+        if (d < bestD && tr.last < t) {
           bestD = d;
           best = k;
         }
@@ -68,15 +79,14 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
         best = static_cast<int>(tracks.size());
         tracks.push_back({});
         tracks.back().first = t;
+        open.push_back(best);
       }
       Track& tr = tracks[static_cast<std::size_t>(best)];
       tr.last = t;
       tr.x = a.dx;
       tr.y = a.dy;
       tr.members.emplace_back(t, a.cell);
-      next.push_back(best);
     }
-    open = std::move(next);
   }
   // Any stretch of `minFrames` in which the neighbour's area stays within a factor 1.4
   // is lodged, even if the same track began as a growing bud (a daughter that lodged).

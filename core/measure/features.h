@@ -42,10 +42,11 @@ struct AttachedCell {
 };
 std::vector<AttachedCell> attachedCells(const CropReading& reading, const FeatureContext& context);
 
-// Per frame of one trap, the attached cells that are not buds: a neighbour that stays
-// beside the mother, at the same place and without growing, for longer than a bud
-// ever takes (a lodged daughter, a stuck cell). Buds grow and then leave.
-// `minFrames` is that duration in frames.
+// Per frame of one trap, the cells beside the mother that are not buds: a neighbour that
+// stays beside her, at the same place and without growing, for longer than a bud ever
+// takes (a lodged daughter, a stuck cell). Buds grow and then leave. `minFrames` is that
+// duration in readings of the neighbour; she may be read a little apart from the mother,
+// or not at all, for a frame or two meanwhile.
 std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& readings,
                                                const FeatureContext& context, int minFrames);
 

@@ -103,6 +103,25 @@ TEST(Features, UnchangingNeighbourIsLodgedAndGrowingBudIsNot) {
   EXPECT_GE(flagged, 10);
 }
 
+// A lodged daughter is not read the same in every frame: for a while she sits a little
+// apart from the mother, and one frame has no reading at all (flicker, defocus). Neither
+// may restart the count of how long she has stayed.
+TEST(Features, LodgedNeighbourReadApartOrMissedForAFrameStaysLodged) {
+  std::vector<CropReading> readings;
+  for (int t = 0; t < 12; ++t) {
+    Scene l;
+    const double apart = t >= 3 && t <= 5 ? 1.5 : 0.0;  // px between the outlines
+    l.cells = {{32, 30, 8, 8}, {32, 17.5 - apart, 4.5, 4.5}};
+    readings.push_back(t == 7 ? CropReading{} : readScene(l, 70 + static_cast<std::uint64_t>(t)));
+  }
+  ASSERT_LT(readings[7].mother, 0);
+  for (int t = 3; t <= 5; ++t) EXPECT_TRUE(attachedCells(readings[t], context()).empty());
+  const auto lodged = lodgedNeighbours(readings, context(), 8);
+  int flagged = 0;
+  for (const auto& f : lodged) flagged += !f.empty();
+  EXPECT_GE(flagged, 10);  // of the 11 with a reading
+}
+
 TEST(Features, DepartureSeesADaughterLeaveNotAMissedBud) {
   Scene before;
   before.cells = {{32, 30, 8, 8}, {32, 17.5, 5, 5}};
