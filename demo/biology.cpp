@@ -40,6 +40,27 @@ double meanCycleMin(const BiologyParams& b, int n, int lifespan) {
   return m;
 }
 
+DaughterPlace daughterPlace(const Division& d, double motherRadiusUm, double t) {
+  const double dt = std::max(0.0, t - d.tSep);
+  if (d.lodged) return {d.lodgeAngle, motherRadiusUm + d.daughterRadiusUm + 0.1};
+  double angle = d.angle;
+  if (d.upstream) angle += (d.angle > detmath::kPi ? 1.0 : -1.0) * std::min(1.3, 0.06 * dt);
+  return {angle, motherRadiusUm + d.daughterRadiusUm + 0.3 + 0.15 * dt};
+}
+
+bool budSiteTaken(double budAngle, double budRadiusUm, const Division& other,
+                  double motherRadiusUm, double t) {
+  if (t < other.tSep || t >= other.tGone) return false;
+  const DaughterPlace p = daughterPlace(other, motherRadiusUm, t);
+  // The grown bud's centre sits 0.6 of its radius outside the mother's outline
+  // (as drawn by the renderer); the daughter's at p.distUm.
+  const double b = motherRadiusUm + 0.6 * budRadiusUm;
+  const double dx = p.distUm * detmath::sin(p.angle) - b * detmath::sin(budAngle);
+  const double dy = p.distUm * detmath::cos(p.angle) - b * detmath::cos(budAngle);
+  const double reach = budRadiusUm + other.daughterRadiusUm;
+  return dx * dx + dy * dy < reach * reach;
+}
+
 namespace {
 
 Occupant simulateMother(const BiologyParams& b, bool initial, double tStart, double horizon,
@@ -64,12 +85,32 @@ Occupant simulateMother(const BiologyParams& b, bool initial, double tStart, dou
     cycleStart = tStart - rng.uniform(0.0, 0.3) * b.cycleMin * b.g1Fraction;
   }
 
+  auto sideAngle = [&](bool upstream) {
+    return upstream ? detmath::kPi + rng.normal(0.0, 0.5)  // around the inlet side
+                    : rng.normal(0.0, 0.15);               // into the outlet gap
+  };
+  // A bud emerges where there is room: if a daughter still beside the mother
+  // (lodged, or not yet carried off) holds the side drawn, the bud grows on the
+  // other side; if both are held, it pushes the daughter on the drawn side away.
   auto budDirection = [&](Division& d) {
     d.upstream = rng.bernoulli(b.upstreamBudFraction);
-    if (d.upstream)
-      d.angle = detmath::kPi + rng.normal(0.0, 0.5);  // around the inlet side
-    else
-      d.angle = rng.normal(0.0, 0.15);  // into the outlet gap
+    d.angle = sideAngle(d.upstream);
+    const double r = m.radiusUm * detmath::cbrt(1.0 + b.volumeGrowth * d.age);
+    auto taken = [&](double angle) {
+      return std::any_of(m.divisions.begin(), m.divisions.end(), [&](const Division& o) {
+        return budSiteTaken(angle, d.daughterRadiusUm, o, r, d.tBud);
+      });
+    };
+    if (!taken(d.angle)) return;
+    const bool drawnUpstream = d.upstream;
+    const double drawnAngle = d.angle;
+    d.upstream = !drawnUpstream;
+    d.angle = sideAngle(d.upstream);
+    if (!taken(d.angle)) return;
+    d.upstream = drawnUpstream;
+    d.angle = drawnAngle;
+    for (auto& o : m.divisions)
+      if (budSiteTaken(d.angle, d.daughterRadiusUm, o, r, d.tBud)) o.tGone = d.tBud;
   };
   auto daughterFate = [&](Division& d) {
     if (rng.bernoulli(b.lodgeProbability)) {

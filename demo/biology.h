@@ -60,6 +60,22 @@ struct TrapLife {
   std::vector<StuckCell> stuck;
 };
 
+// Where a separated daughter sits at time t (>= tSep), relative to the centre of
+// a mother of radius motherRadiusUm, in the trap frame: carried away from the
+// mother (round her if she budded upstream) or lodged beside her. The one
+// definition that the renderer draws and the bud-site rule below respects.
+struct DaughterPlace {
+  double angle = 0.0;   // radians, 0 = downstream
+  double distUm = 0.0;  // centre to the mother's centre
+};
+DaughterPlace daughterPlace(const Division& d, double motherRadiusUm, double t);
+
+// True when a bud of final radius budRadiusUm growing from the mother in
+// direction budAngle would overlap a daughter of `other` still in view at time
+// t. Cells in a trap lie in one layer: a bud cannot grow where a cell sits.
+bool budSiteTaken(double budAngle, double budRadiusUm, const Division& other,
+                  double motherRadiusUm, double t);
+
 // First frame whose time k·interval is >= t (the frame at which something that
 // happens at time t is first visible).
 int frameAt(double tMin, double intervalMin);

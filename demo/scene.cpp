@@ -106,16 +106,9 @@ void SceneBuilder::addTrap(const Trap& trap, const TrapLife& life, int frame, do
     }
     // Separated daughter still in view: carried away, or lodged beside the mother.
     const double rd = d.daughterRadiusUm;
-    const double dt = t - d.tSep;
-    double angle = d.angle, dist;
-    if (d.lodged) {
-      angle = d.lodgeAngle;
-      dist = r + rd + 0.1;
-    } else {
-      dist = r + rd + 0.3 + 0.15 * dt;
-      if (d.upstream) angle += (d.angle > detmath::kPi ? 1.0 : -1.0) * std::min(1.3, 0.06 * dt);
-    }
-    const Vec2 dir = unit(angle);
+    const DaughterPlace place = daughterPlace(d, r, t);
+    const double dist = place.distUm;
+    const Vec2 dir = unit(place.angle);
     double across = rd, along = rd;
     const double v = mv + dist * dir.y;
     if (!d.upstream && !d.lodged && v < device_.params().wallUm + rd && rd > gap + 0.1) {
