@@ -292,8 +292,17 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
                                              segKeep, &noiseMaps[i]);
     }
     const auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
+    // Bud candidates of every informative frame, lodged neighbours left out.
+    std::vector<std::vector<int>> attached(static_cast<std::size_t>(T));
+    for (int t = 0; t < T; ++t) {
+      const auto ut = static_cast<std::size_t>(t);
+      if (!informative[ut]) continue;
+      for (const auto& a : measure::attachedCells(readings[i][ut], fctx))
+        if (std::find(lodged[ut].begin(), lodged[ut].end(), a.cell) == lodged[ut].end())
+          attached[ut].push_back(a.cell);
+    }
+    const std::vector<int> none;
     int previous = -1;  // last informative frame
-    std::vector<int> previousAttached;
     for (int t = 0; t < T; ++t) {
       const auto ut = static_cast<std::size_t>(t);
       propose::FrameEvidence& e = evidence[i][ut];
@@ -305,19 +314,21 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       probabilities[i][ut] = model.predict(features[i][ut]);
       const auto& f = features[i][ut];
       e.occupancy = probabilities[i][ut];
-      // Beside a lodged neighbour a bud can hide: its size is then not evidence.
-      e.budRatio = f.hasMother && !f.lodgedNeighbour ? f.budRatio : propose::kMissing;
+      // A lodged neighbour is no part of the bud ratio (computeFeatures), so a bud
+      // growing beside her still counts: buds grow where there is room, not under her.
+      e.budRatio = f.hasMother ? f.budRatio : propose::kMissing;
       if (f.hasMother)
         e.morph = {f.motherContrast, f.motherTexture, std::log(std::max(1.0, f.motherAreaPx))};
-      std::vector<int> attached;
-      for (const auto& a : measure::attachedCells(readings[i][ut], fctx))
-        if (std::find(lodged[ut].begin(), lodged[ut].end(), a.cell) == lodged[ut].end())
-          attached.push_back(a.cell);
-      if (previous >= 0 && f.hasMother)
-        e.departure = measure::departedArea(readings[i][static_cast<std::size_t>(previous)],
-                                            previousAttached, readings[i][ut], 0.5 * seg.threshold);
+      if (previous >= 0 && f.hasMother) {
+        int next = t + 1;
+        while (next < T && !informative[static_cast<std::size_t>(next)]) ++next;
+        const auto up = static_cast<std::size_t>(previous);
+        const auto un = static_cast<std::size_t>(next);
+        e.departure = measure::departedArea(
+            readings[i][up], attached[up], readings[i][ut], attached[ut], 0.5 * seg.threshold,
+            next < T ? &readings[i][un] : nullptr, next < T ? attached[un] : none);
+      }
       previous = t;
-      previousAttached = std::move(attached);
     }
     for (auto& r : readings[i]) {
       r.mask.release();

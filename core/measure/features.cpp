@@ -9,6 +9,10 @@
 namespace budledger::measure {
 namespace {
 
+// How far (in mother radii) a former bud's centre must have moved away from the
+// mother for her to count as let go while still in view.
+constexpr double kMovedOff = 0.1;
+
 double radiusOf(double areaPx) { return std::sqrt(std::max(0.0, areaPx) / std::numbers::pi); }
 
 // Edge-to-edge gap between the mother and another cell: as measured between their
@@ -115,19 +119,65 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
 }
 
 double departedArea(const CropReading& before, const std::vector<int>& attachedBefore,
-                    const CropReading& now, double backgroundSd) {
+                    const CropReading& now, const std::vector<int>& attachedNow,
+                    double backgroundSd, const CropReading* next,
+                    const std::vector<int>& attachedNext) {
   if (before.mask.empty() || now.mask.empty() || now.mother < 0 || before.mother < 0) return 0;
   if (before.mask.size() != now.mask.size() || attachedBefore.empty()) return 0;
   if (now.difference.size() != now.mask.size()) return 0;
-  std::vector<bool> wasAttached(before.cells.size() + 1, false);
-  for (int c : attachedBefore) wasAttached[static_cast<std::size_t>(c + 1)] = true;
+  auto labels = [](const CropReading& r, const std::vector<int>& cells) {
+    std::vector<bool> in(r.cells.size() + 1, false);
+    for (int c : cells) in[static_cast<std::size_t>(c + 1)] = true;
+    return in;
+  };
+  const std::vector<bool> wasAttached = labels(before, attachedBefore);
+  // Labels that are still part of the mother's body: she and her buds.
+  std::vector<bool> joinedNow = labels(now, attachedNow);
+  joinedNow[static_cast<std::size_t>(now.mother + 1)] = true;
+  const bool haveNext = next && next->mother >= 0 && next->mask.size() == now.mask.size();
+  std::vector<bool> joinedNext;
+  if (haveNext) {
+    joinedNext = labels(*next, attachedNext);
+    joinedNext[static_cast<std::size_t>(next->mother + 1)] = true;
+  }
+  // A cell read apart from the mother now that covers a former bud has let go of her
+  // only if she has also moved away from the mother (a separated daughter is pushed
+  // off; a neighbour whose outline is merely read with a gap stays where she was),
+  // and only if the next reading does not join those pixels to the mother again.
+  const std::size_t nb = before.cells.size() + 1, nn = now.cells.size() + 1;
+  std::vector<int> overlap(nb * nn, 0);
+  for (int y = 0; y < now.mask.rows; ++y) {
+    const auto* b = before.mask.ptr<std::uint16_t>(y);
+    const auto* n = now.mask.ptr<std::uint16_t>(y);
+    for (int x = 0; x < now.mask.cols; ++x)
+      if (b[x] && wasAttached[b[x]] && n[x] && !joinedNow[n[x]]) ++overlap[n[x] * nb + b[x]];
+  }
+  const Cell& mb = before.cells[static_cast<std::size_t>(before.mother)];
+  const Cell& mn = now.cells[static_cast<std::size_t>(now.mother)];
+  const double rm = radiusOf(mn.areaPx);
+  std::vector<bool> letGo(nn, false);
+  for (std::size_t n = 1; n < nn; ++n) {
+    const auto first = overlap.begin() + static_cast<std::ptrdiff_t>(n * nb);
+    const auto most = std::max_element(first, first + static_cast<std::ptrdiff_t>(nb));
+    if (*most == 0) continue;
+    const Cell& was = before.cells[static_cast<std::size_t>(most - first) - 1];
+    const Cell& is = now.cells[n - 1];
+    letGo[n] = std::hypot(is.x - mn.x, is.y - mn.y) - std::hypot(was.x - mb.x, was.y - mb.y) >=
+               kMovedOff * rm;
+  }
   int gone = 0;
   for (int y = 0; y < now.mask.rows; ++y) {
     const auto* b = before.mask.ptr<std::uint16_t>(y);
     const auto* n = now.mask.ptr<std::uint16_t>(y);
     const float* d = now.difference.ptr<float>(y);
-    for (int x = 0; x < now.mask.cols; ++x)
-      if (b[x] && wasAttached[b[x]] && n[x] == 0 && d[x] < backgroundSd) ++gone;
+    const auto* nx = haveNext ? next->mask.ptr<std::uint16_t>(y) : nullptr;
+    for (int x = 0; x < now.mask.cols; ++x) {
+      if (!b[x] || !wasAttached[b[x]]) continue;
+      if (n[x] == 0)
+        gone += d[x] < backgroundSd;
+      else if (letGo[n[x]])
+        gone += !nx || !joinedNext[nx[x]];
+    }
   }
   return gone / std::max(1.0, now.cells[static_cast<std::size_t>(now.mother)].areaPx);
 }
@@ -165,7 +215,6 @@ FrameFeatures computeFeatures(const CropReading& r, const FeatureContext& ctx,
     const bool isAttached = gap < ctx.attachGap && !lodged;
     if (lodged) {
       ++f.nearOthers;
-      f.lodgedNeighbour = true;
     } else if (isAttached && c.areaPx < m.areaPx) {
       ++attached;
       bestBud += c.areaPx / m.areaPx;

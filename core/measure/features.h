@@ -27,7 +27,6 @@ struct FrameFeatures {
   // her area, summed: a bud broken into pieces by the segmentation is still one bud.
   // 0 when none.
   double budRatio = 0;
-  bool lodgedNeighbour = false;  // a lodged cell beside the mother may hide her bud
   bool hasMother = false;
   int nearOthers = 0;  // cells other than mother and bud within one mother radius of her
   // Mother's morphology for the death evidence (NaN when no mother).
@@ -50,15 +49,20 @@ std::vector<AttachedCell> attachedCells(const CropReading& reading, const Featur
 std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& readings,
                                                const FeatureContext& context, int minFrames);
 
-// Area that cells attached to the mother in `before` covered and no cell covers in
-// `now`, over the mother's area: a daughter carried away as she separates. Cells that
-// were already apart (a daughter drifting off) do not count. Needs keepMask readings;
-// `attachedBefore` are the bud candidates of `before` (lodged ones excluded).
-// A pixel has gone when it shows less than `backgroundSd` noise SDs of difference of
-// the outline's sign now (so a bud merely missed by the segmentation has not gone, and
-// a neighbour's halo of the other sign does not hide that it has).
+// Area that cells attached to the mother in `before` covered and that now is no part of
+// her body, over the mother's area: a daughter carried away as she separates, or one
+// that separated and stays beside her, read apart from her or lodged (she then covers
+// those pixels as a cell of her own; they count only if `next`, the following reading,
+// does not join them to the mother again). Cells that were already apart (a daughter
+// drifting off) do not count. Needs keepMask readings; `attached…` are the bud
+// candidates of each reading (lodged ones excluded).
+// A pixel nothing covers now has gone when it shows less than `backgroundSd` noise SDs
+// of difference of the outline's sign (so a bud merely missed by the segmentation has
+// not gone, and a neighbour's halo of the other sign does not hide that it has).
 double departedArea(const CropReading& before, const std::vector<int>& attachedBefore,
-                    const CropReading& now, double backgroundSd);
+                    const CropReading& now, const std::vector<int>& attachedNow,
+                    double backgroundSd, const CropReading* next = nullptr,
+                    const std::vector<int>& attachedNext = {});
 
 // Features of one reading; `excluded` cells (lodged neighbours) are not buds and count
 // as crowding.

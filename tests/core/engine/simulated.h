@@ -18,7 +18,8 @@ namespace budledger::engine::testing {
 // With `findLattice` the trap lattice is found by the pipeline, as `analyze` does;
 // otherwise the truth's cup centres are the layout, which measures the engine alone.
 inline evaluate::Score simulateAndScore(demo::Scenario scenario, const std::string& tag,
-                                        bool findLattice = false) {
+                                        bool findLattice = false,
+                                        const evaluate::ScoreOptions& scoring = {}) {
   namespace fs = std::filesystem;
   const fs::path dir = fs::temp_directory_path() / ("budledger-engine-" + tag);
   fs::remove_all(dir);
@@ -49,7 +50,7 @@ inline evaluate::Score simulateAndScore(demo::Scenario scenario, const std::stri
     engine.push_back(std::move(e));
   }
   fs::remove_all(dir);
-  return evaluate::score(truth, engine);
+  return evaluate::score(truth, engine, scoring);
 }
 
 }  // namespace budledger::engine::testing

@@ -131,10 +131,39 @@ TEST(Features, DepartureSeesADaughterLeaveNotAMissedBud) {
   std::vector<int> attached;
   for (const auto& c : attachedCells(b, context())) attached.push_back(c.cell);
   ASSERT_FALSE(attached.empty());
-  EXPECT_GT(departedArea(b, attached, a, 1.75), 0.2);
+  EXPECT_GT(departedArea(b, attached, a, {}, 1.75), 0.2);
   // The same bud still there: nothing departed.
   const CropReading again = readScene(before, 7, true);
-  EXPECT_LT(departedArea(b, attached, again, 1.75), 0.05);
+  std::vector<int> attachedAgain;
+  for (const auto& c : attachedCells(again, context())) attachedAgain.push_back(c.cell);
+  ASSERT_FALSE(attachedAgain.empty());
+  EXPECT_LT(departedArea(b, attached, again, attachedAgain, 1.75), 0.05);
+  // Read apart from the mother in this reading, but where she was: no separation.
+  EXPECT_LT(departedArea(b, attached, again, {}, 1.75), 0.05);
+}
+
+// A daughter who separates but stays in view (lingering, lodged) covers much of where
+// the bud was; she has let go of the mother all the same, unless the next reading joins
+// her to the mother again.
+TEST(Features, DepartureSeesADaughterLetGoWhoStaysInView) {
+  Scene before;
+  before.cells = {{32, 30, 8, 8}, {32, 18.5, 4.5, 4.5}};
+  Scene after;
+  after.cells = {{32, 30, 8, 8}, {32, 14.5, 5, 5}};  // pushed off, 3 px between outlines
+  const CropReading b = readScene(before, 11, true), a = readScene(after, 12, true),
+                    stays = readScene(after, 13, true), back = readScene(before, 14, true);
+  std::vector<int> attached, attachedBack;
+  for (const auto& c : attachedCells(b, context())) attached.push_back(c.cell);
+  for (const auto& c : attachedCells(back, context())) attachedBack.push_back(c.cell);
+  ASSERT_FALSE(attached.empty());
+  ASSERT_TRUE(attachedCells(a, context()).empty());
+  ASSERT_EQ(a.cells.size(), 2u);
+  const double letGo = departedArea(b, attached, a, {}, 1.75, &stays, {});
+  const double rejoined = departedArea(b, attached, a, {}, 1.75, &back, attachedBack);
+  // Where she was and no cell is now counts either way (0.087 of the mother's area
+  // here); where she still covers it, only if she stays apart (0.174 in all).
+  EXPECT_GT(letGo, 0.14);
+  EXPECT_GT(letGo, 1.5 * rejoined);
 }
 
 // Mothers as they are: sizes, seats and buds differ from trap to trap and frame to frame.
