@@ -48,8 +48,8 @@ DaughterPlace daughterPlace(const Division& d, double motherRadiusUm, double t) 
   return {angle, motherRadiusUm + d.daughterRadiusUm + 0.3 + 0.15 * dt};
 }
 
-bool budSiteTaken(double budAngle, double budRadiusUm, const Division& other,
-                  double motherRadiusUm, double t) {
+bool budSiteTaken(double budAngle, double budRadiusUm, const Division& other, double motherRadiusUm,
+                  double t) {
   if (t < other.tSep || t >= other.tGone) return false;
   const DaughterPlace p = daughterPlace(other, motherRadiusUm, t);
   // The grown bud's centre sits 0.6 of its radius outside the mother's outline

@@ -73,8 +73,8 @@ DaughterPlace daughterPlace(const Division& d, double motherRadiusUm, double t);
 // True when a bud of final radius budRadiusUm growing from the mother in
 // direction budAngle would overlap a daughter of `other` still in view at time
 // t. Cells in a trap lie in one layer: a bud cannot grow where a cell sits.
-bool budSiteTaken(double budAngle, double budRadiusUm, const Division& other,
-                  double motherRadiusUm, double t);
+bool budSiteTaken(double budAngle, double budRadiusUm, const Division& other, double motherRadiusUm,
+                  double t);
 
 // First frame whose time k·interval is >= t (the frame at which something that
 // happens at time t is first visible).
