@@ -12,6 +12,12 @@ namespace {
 // How far (in mother radii) a former bud's centre must have moved away from the
 // mother for her to count as let go while still in view.
 constexpr double kMovedOff = 0.1;
+// Followed frame to frame, a bud lets go when she moves out this far (mother radii)
+// between readings without shrinking, once she has a daughter's size (over the
+// mother's area; a daughter is ~0.6 of her, a bud's visible part less): a separated
+// daughter is pushed off by about 0.5 µm or more, ~0.2 radii (docs/engine.md).
+constexpr double kLetGoMove = 0.3;
+constexpr double kDaughterSize = 0.2;
 
 double radiusOf(double areaPx) { return std::sqrt(std::max(0.0, areaPx) / std::numbers::pi); }
 
@@ -51,7 +57,12 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
   struct Track {
     int first = 0, last = 0;
     double x = 0, y = 0;
-    std::vector<std::pair<int, int>> members;  // (frame, cell)
+    struct Member {
+      int frame = 0;
+      int cell = 0;
+      double dist = 0;  // centre to the mother's centre, in her radii
+    };
+    std::vector<Member> members;
   };
   // A lodged daughter is not read the same in every frame, and neither way may restart
   // the count of how long she has stayed, or she would seldom stay long enough: she is
@@ -89,7 +100,7 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
       tr.last = t;
       tr.x = a.dx;
       tr.y = a.dy;
-      tr.members.emplace_back(t, a.cell);
+      tr.members.push_back({t, a.cell, std::hypot(a.dx, a.dy)});
     }
   }
   // Any stretch of `minFrames` in which the neighbour's area stays within a factor 1.4
@@ -98,22 +109,34 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
   for (const auto& tr : tracks) {
     const auto& mem = tr.members;
     const std::size_t n = mem.size();
-    if (static_cast<int>(n) < minFrames) continue;
+    auto areaRatio = [&](std::size_t k) {
+      const auto& r = readings[static_cast<std::size_t>(mem[k].frame)];
+      return r.cells[static_cast<std::size_t>(mem[k].cell)].areaPx /
+             r.cells[static_cast<std::size_t>(r.mother)].areaPx;
+    };
     std::vector<bool> lodged(n, false);
     for (std::size_t j = 0; j + static_cast<std::size_t>(minFrames) <= n; ++j) {
       double lo = 1e9, hi = 0;
       for (std::size_t k = j; k < j + static_cast<std::size_t>(minFrames); ++k) {
-        const auto& r = readings[static_cast<std::size_t>(mem[k].first)];
-        const double a = r.cells[static_cast<std::size_t>(mem[k].second)].areaPx /
-                         r.cells[static_cast<std::size_t>(r.mother)].areaPx;
-        lo = std::min(lo, a);
-        hi = std::max(hi, a);
+        lo = std::min(lo, areaRatio(k));
+        hi = std::max(hi, areaRatio(k));
       }
       if (hi < 1.4 * lo)
         for (std::size_t k = j; k < j + static_cast<std::size_t>(minFrames); ++k) lodged[k] = true;
     }
+    // A bud of a daughter's size that moves out from the mother without shrinking has
+    // let go of her (the part the mother hid shows now): from then on, while she stays
+    // at about that size, she is a daughter beside the mother, not a bud, however her
+    // outline's gap to the mother is read from frame to frame.
+    for (std::size_t k = 1; k < n; ++k) {
+      const double before = areaRatio(k - 1), now = areaRatio(k);
+      if (mem[k].frame - mem[k - 1].frame > 1 + kMissedFrames || before < kDaughterSize) continue;
+      if (now < before || mem[k].dist - mem[k - 1].dist < kLetGoMove) continue;
+      for (std::size_t j = k; j < n && areaRatio(j) > now / 1.4 && areaRatio(j) < now * 1.4; ++j)
+        lodged[j] = true;
+    }
     for (std::size_t k = 0; k < n; ++k)
-      if (lodged[k]) out[static_cast<std::size_t>(mem[k].first)].push_back(mem[k].second);
+      if (lodged[k]) out[static_cast<std::size_t>(mem[k].frame)].push_back(mem[k].cell);
   }
   return out;
 }

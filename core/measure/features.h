@@ -45,7 +45,9 @@ std::vector<AttachedCell> attachedCells(const CropReading& reading, const Featur
 // stays beside her, at the same place and without growing, for longer than a bud ever
 // takes (a lodged daughter, a stuck cell). Buds grow and then leave. `minFrames` is that
 // duration in readings of the neighbour; she may be read a little apart from the mother,
-// or not at all, for a frame or two meanwhile.
+// or not at all, for a frame or two meanwhile. A bud of a daughter's size that moves
+// out from the mother without shrinking has let go of her, and is a neighbour from then
+// on, however briefly she stays.
 std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& readings,
                                                const FeatureContext& context, int minFrames);
 

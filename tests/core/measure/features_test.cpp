@@ -103,6 +103,24 @@ TEST(Features, UnchangingNeighbourIsLodgedAndGrowingBudIsNot) {
   EXPECT_GE(flagged, 10);
 }
 
+// A bud of a daughter's size that moves out from the mother, her whole outline now in
+// view, has let go: from then on she is a daughter, not a bud, though she stays for less
+// than a lodged neighbour must and her outline still touches the mother's.
+TEST(Features, BudThatMovesOffIsADaughterNotABud) {
+  std::vector<CropReading> readings;
+  for (int t = 0; t < 9; ++t) {
+    Scene s;
+    // Overlapping the mother, then 0.5 px apart from her: the centre moves 2.5 px out.
+    const double y = t < 5 ? 30 - 8 - 0.6 * 5 : 30 - 8 - 5 - 0.5;
+    s.cells = {{32, 30, 8, 8}, {32, y, 5, 5}};
+    readings.push_back(readScene(s, 120 + static_cast<std::uint64_t>(t)));
+  }
+  for (int t = 0; t < 5; ++t) ASSERT_EQ(attachedCells(readings[t], context()).size(), 1u) << t;
+  const auto lodged = lodgedNeighbours(readings, context(), 15);  // far longer than she stays
+  for (int t = 0; t < 5; ++t) EXPECT_TRUE(lodged[t].empty()) << "a bud at " << t;
+  for (int t = 5; t < 9; ++t) EXPECT_EQ(lodged[t].size(), 1u) << "a daughter at " << t;
+}
+
 // A lodged daughter is not read the same in every frame: for a while she sits a little
 // apart from the mother, and one frame has no reading at all (flicker, defocus). Neither
 // may restart the count of how long she has stayed.
