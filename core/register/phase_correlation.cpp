@@ -1,5 +1,7 @@
 #include "core/register/phase_correlation.h"
 
+#include <algorithm>
+
 #include <opencv2/imgproc.hpp>
 
 #include <cmath>
@@ -104,7 +106,8 @@ double vertex(double m, double c, double p) {
 }
 }  // namespace
 
-Peak PhaseCorrelator::peakNear(cv::Point2d centre, double radius) const {
+Peak PhaseCorrelator::peakNear(cv::Point2d centre, double radius,
+                               const std::vector<cv::Point2d>& avoid, double avoidRadius) const {
   const int x0 = static_cast<int>(std::floor(centre.x - radius));
   const int x1 = static_cast<int>(std::ceil(centre.x + radius));
   const int y0 = static_cast<int>(std::floor(centre.y - radius));
@@ -116,6 +119,9 @@ Peak PhaseCorrelator::peakNear(cv::Point2d centre, double radius) const {
     for (int x = x0; x <= x1; ++x) {
       const double dx = x - centre.x, dy = y - centre.y;
       if (dx * dx + dy * dy > r2) continue;
+      if (std::any_of(avoid.begin(), avoid.end(),
+                      [&](cv::Point2d a) { return std::hypot(x - a.x, y - a.y) <= avoidRadius; }))
+        continue;
       const float v = at(surface_, x, y);
       if (v > best) {
         best = v;

@@ -11,6 +11,8 @@
 // drops the slow shading that is fixed to the camera and would pull the
 // estimate towards zero. Spectra are kept in OpenCV's packed (CCS) form. Not thread-safe (scratch
 // buffers are reused).
+#include <vector>
+
 #include <opencv2/core.hpp>
 
 namespace budledger::registration {
@@ -36,8 +38,10 @@ class PhaseCorrelator {
   const cv::Mat& correlate(const cv::Mat& features);
 
   // The highest element of the last surface within `radius` of `centre` (in
-  // shift coordinates), refined to sub-pixel precision.
-  Peak peakNear(cv::Point2d centre, double radius) const;
+  // shift coordinates) and not within `avoidRadius` of any of `avoid`, refined
+  // to sub-pixel precision.
+  Peak peakNear(cv::Point2d centre, double radius, const std::vector<cv::Point2d>& avoid = {},
+                double avoidRadius = 0) const;
   // The highest element of the whole last surface, as the shift of smallest
   // magnitude it can stand for, refined to sub-pixel precision.
   Peak globalPeak() const;

@@ -10,6 +10,11 @@
 namespace budledger::registration {
 namespace {
 constexpr int kMargin = 8;  // px around the fine patch for filters and sub-pixel sampling (even)
+// When the highest coarse peak refines to a correlation below kPoorMatch (a chip
+// matched at all gives 0.85-0.95 in the tests and simulations; dust fixed to the
+// camera 0.1-0.25), this many more peaks are refined and the best kept.
+constexpr int kFallbackPeaks = 3;
+constexpr double kPoorMatch = 0.5;
 const FeatureOptions kCoarseFeatures{1.0, 0.0};  // the correlator's band-pass drops shading
 const FeatureOptions kHalfFeatures{1.0, 0.0};
 const FeatureOptions kFullFeatures{1.5, 0.0};
@@ -130,8 +135,25 @@ Measurement Registrar::measure(const cv::Mat& frame, cv::Point2d prediction) {
   m.coarsePeak = chosen.value;
   const cv::Point2d coarse = chosen.shift * f + ws;
   m.shift = coarse;
-
   refine(frame, coarse, 0.75 * f + 1.5, m);
+  if (m.jump || (m.refined && m.correlation >= kPoorMatch)) return m;
+
+  // The chip's own peak can be lower than one that is not the chip's: dust or
+  // shading fixed to the camera peaks at zero shift, and as the stage drifts away
+  // the overlap with the reference, and so the chip's peak, shrinks. Such a peak
+  // aligns the frame poorly or not at all, so when the first does, the next peaks
+  // in the search disc are refined too and the best aligned one is kept.
+  std::vector<cv::Point2d> tried{chosen.shift};
+  for (int k = 0; k < kFallbackPeaks; ++k) {
+    const Peak next = coarse_.peakNear((prediction - ws) / f, searchRadius_ / f, tried, 2.0);
+    if (next.value <= 0) break;
+    tried.push_back(next.shift);
+    Measurement alt;
+    alt.coarsePeak = next.value;
+    alt.shift = next.shift * f + ws;
+    refine(frame, alt.shift, 0.75 * f + 1.5, alt);
+    if (alt.refined && (!m.refined || alt.correlation > m.correlation)) m = alt;
+  }
   return m;
 }
 
