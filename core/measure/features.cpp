@@ -14,8 +14,9 @@ namespace {
 constexpr double kMovedOff = 0.1;
 // Followed frame to frame, a bud lets go when she moves out this far (mother radii)
 // between readings without shrinking, once she has a daughter's size (over the
-// mother's area; a daughter is ~0.6 of her, a bud's visible part less): a separated
-// daughter is pushed off by about 0.5 µm or more, ~0.2 radii (docs/engine.md).
+// mother's area; a daughter is ~0.6 of her, a bud's visible part less). A separated
+// daughter is pushed off by about 0.5 µm, 0.2-0.3 radii; at 0.22 buds squeezed into
+// the outlet, which grow outwards fast, were let go early (docs/validation.md).
 constexpr double kLetGoMove = 0.3;
 constexpr double kDaughterSize = 0.2;
 
@@ -179,14 +180,15 @@ double departedArea(const CropReading& before, const std::vector<int>& attachedB
   const Cell& mn = now.cells[static_cast<std::size_t>(now.mother)];
   const double rm = radiusOf(mn.areaPx);
   std::vector<bool> letGo(nn, false);
-  for (std::size_t n = 1; n < nn; ++n) {
-    const auto first = overlap.begin() + static_cast<std::ptrdiff_t>(n * nb);
+  for (std::size_t label = 1; label < nn; ++label) {
+    // The former bud this cell covers most of.
+    const auto first = overlap.begin() + static_cast<std::ptrdiff_t>(label * nb);
     const auto most = std::max_element(first, first + static_cast<std::ptrdiff_t>(nb));
     if (*most == 0) continue;
     const Cell& was = before.cells[static_cast<std::size_t>(most - first) - 1];
-    const Cell& is = now.cells[n - 1];
-    letGo[n] = std::hypot(is.x - mn.x, is.y - mn.y) - std::hypot(was.x - mb.x, was.y - mb.y) >=
-               kMovedOff * rm;
+    const Cell& is = now.cells[label - 1];
+    letGo[label] = std::hypot(is.x - mn.x, is.y - mn.y) - std::hypot(was.x - mb.x, was.y - mb.y) >=
+                   kMovedOff * rm;
   }
   int gone = 0;
   for (int y = 0; y < now.mask.rows; ++y) {

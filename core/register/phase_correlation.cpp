@@ -1,9 +1,8 @@
 #include "core/register/phase_correlation.h"
 
-#include <algorithm>
-
 #include <opencv2/imgproc.hpp>
 
+#include <algorithm>
 #include <cmath>
 
 namespace budledger::registration {
