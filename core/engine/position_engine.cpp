@@ -20,6 +20,11 @@
 namespace budledger::engine {
 namespace {
 
+// A piece attached to the mother and pressed against a neighbour is a seam, not a bud,
+// while it is smaller than this share of her area (a bud that grows on against the
+// neighbour passes it within a frame or two).
+constexpr double kSeamArea = 0.15;
+
 double median(std::vector<double> v) {
   if (v.empty()) return 0;
   auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
@@ -291,7 +296,15 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       readings[i][ut] = measure::segmentCrop(crop, background.background(i), noise, seatGeometry,
                                              segKeep, &noiseMaps[i]);
     }
-    const auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
+    auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
+    // The seam between the mother and a neighbour pressed against her is no bud: right
+    // after a daughter lets go it read as an immediate new bud, two frames early.
+    for (int t = 0; t < T; ++t) {
+      auto& l = lodged[static_cast<std::size_t>(t)];
+      const auto seams =
+          measure::seamsAgainst(readings[i][static_cast<std::size_t>(t)], fctx, l, kSeamArea);
+      l.insert(l.end(), seams.begin(), seams.end());
+    }
     // Bud candidates of every informative frame, lodged neighbours left out.
     std::vector<std::vector<int>> attached(static_cast<std::size_t>(T));
     for (int t = 0; t < T; ++t) {

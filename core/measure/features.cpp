@@ -6,6 +6,8 @@
 #include <limits>
 #include <numbers>
 
+#include <opencv2/imgproc.hpp>
+
 namespace budledger::measure {
 namespace {
 
@@ -205,6 +207,21 @@ double departedArea(const CropReading& before, const std::vector<int>& attachedB
     }
   }
   return gone / std::max(1.0, now.cells[static_cast<std::size_t>(now.mother)].areaPx);
+}
+
+std::vector<int> seamsAgainst(const CropReading& r, const FeatureContext& ctx,
+                              const std::vector<int>& neighbours, double maxAreaRatio) {
+  std::vector<int> out;
+  if (neighbours.empty() || r.mask.empty() || r.mother < 0) return out;
+  cv::Mat near = cv::Mat::zeros(r.mask.size(), CV_8U);
+  for (int c : neighbours) near.setTo(255, r.mask == c + 1);
+  cv::dilate(near, near, cv::getStructuringElement(cv::MORPH_RECT, {5, 5}));
+  for (const auto& a : attachedCells(r, ctx)) {
+    if (a.areaRatio >= maxAreaRatio) continue;
+    if (std::find(neighbours.begin(), neighbours.end(), a.cell) != neighbours.end()) continue;
+    if (cv::countNonZero(near & (r.mask == a.cell + 1)) > 0) out.push_back(a.cell);
+  }
+  return out;
 }
 
 FrameFeatures computeFeatures(const CropReading& r, const FeatureContext& ctx,

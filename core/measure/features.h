@@ -66,6 +66,12 @@ double departedArea(const CropReading& before, const std::vector<int>& attachedB
                     double backgroundSd, const CropReading* next = nullptr,
                     const std::vector<int>& attachedNext = {});
 
+// Cells attached to the mother, smaller than `maxAreaRatio` of her, whose pixels lie
+// within 2 px of one of `neighbours`: the seam where a neighbour presses against her,
+// not a bud. Needs a keepMask reading (none without).
+std::vector<int> seamsAgainst(const CropReading& reading, const FeatureContext& context,
+                              const std::vector<int>& neighbours, double maxAreaRatio);
+
 // Features of one reading; `excluded` cells (lodged neighbours) are not buds and count
 // as crowding.
 FrameFeatures computeFeatures(const CropReading& reading, const FeatureContext& context,

@@ -4,6 +4,8 @@
 
 #include <numbers>
 
+#include <opencv2/imgproc.hpp>
+
 #include "core/measure/background.h"
 #include "core/measure/occupancy.h"
 #include "core/measure/segment.h"
@@ -138,6 +140,36 @@ TEST(Features, LodgedNeighbourReadApartOrMissedForAFrameStaysLodged) {
   int flagged = 0;
   for (const auto& f : lodged) flagged += !f.empty();
   EXPECT_GE(flagged, 10);  // of the 11 with a reading
+}
+
+// Between the mother and a daughter pressed against her (a lodged or let-go neighbour)
+// the segmentation may leave a small piece of the seam; it is no bud. A bud elsewhere on
+// the mother, or a piece large enough to be a bud, still is.
+TEST(Features, SeamAgainstAPressedNeighbourIsNoBud) {
+  CropReading r;
+  r.mask = cv::Mat::zeros(64, 64, CV_16U);
+  auto cell = [&](double x, double y, double radius, int label) {
+    cv::circle(r.mask, {static_cast<int>(x), static_cast<int>(y)}, static_cast<int>(radius),
+               cv::Scalar(label), cv::FILLED);
+    Cell c;
+    c.x = x;
+    c.y = y;
+    c.areaPx = cv::countNonZero(r.mask == label);
+    c.gapToMotherPx = 0;
+    return c;
+  };
+  // Painted in order, each over the one before: mother, daughter, seam, bud.
+  Cell m = cell(32, 26, 8, 1), daughter = cell(32, 40.5, 6, 2), seam = cell(32, 34.5, 2, 3),
+       bud = cell(22, 20, 3, 4);
+  daughter.gapToMotherPx = 0.5;
+  r.cells = {m, daughter, seam, bud};
+  r.mother = 0;
+  ASSERT_EQ(attachedCells(r, context()).size(), 3u);
+  const auto seams = seamsAgainst(r, context(), {1}, 0.15);
+  ASSERT_EQ(seams.size(), 1u);
+  EXPECT_EQ(seams[0], 2);
+  EXPECT_TRUE(seamsAgainst(r, context(), {}, 0.15).empty());   // nobody pressed against her
+  EXPECT_TRUE(seamsAgainst(r, context(), {1}, 0.05).empty());  // large enough to be a bud
 }
 
 TEST(Features, DepartureSeesADaughterLeaveNotAMissedBud) {
