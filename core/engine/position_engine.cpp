@@ -296,23 +296,20 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       readings[i][ut] = measure::segmentCrop(crop, background.background(i), noise, seatGeometry,
                                              segKeep, &noiseMaps[i]);
     }
-    auto lodged = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
-    // The seam between the mother and a neighbour pressed against her is no bud: right
-    // after a daughter lets go it read as an immediate new bud, two frames early.
-    for (int t = 0; t < T; ++t) {
-      auto& l = lodged[static_cast<std::size_t>(t)];
-      const auto seams =
-          measure::seamsAgainst(readings[i][static_cast<std::size_t>(t)], fctx, l, kSeamArea);
-      l.insert(l.end(), seams.begin(), seams.end());
-    }
-    // Bud candidates of every informative frame, lodged neighbours left out.
+    // Per frame, the cells beside the mother that are not buds: lodged or let-go
+    // neighbours, and the seams between her and them (right after a daughter lets go,
+    // the seam read as an immediate new bud, two frames early). The rest of the cells
+    // attached to her are the bud candidates.
+    auto notBuds = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
     std::vector<std::vector<int>> attached(static_cast<std::size_t>(T));
     for (int t = 0; t < T; ++t) {
       const auto ut = static_cast<std::size_t>(t);
       if (!informative[ut]) continue;
+      auto& n = notBuds[ut];
+      const auto seams = measure::seamsAgainst(readings[i][ut], fctx, n, kSeamArea);
+      n.insert(n.end(), seams.begin(), seams.end());
       for (const auto& a : measure::attachedCells(readings[i][ut], fctx))
-        if (std::find(lodged[ut].begin(), lodged[ut].end(), a.cell) == lodged[ut].end())
-          attached[ut].push_back(a.cell);
+        if (std::find(n.begin(), n.end(), a.cell) == n.end()) attached[ut].push_back(a.cell);
     }
     const std::vector<int> none;
     int previous = -1;  // last informative frame
@@ -323,11 +320,11 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
         e.informative = false;
         continue;
       }
-      features[i][ut] = measure::computeFeatures(readings[i][ut], fctx, lodged[ut]);
+      features[i][ut] = measure::computeFeatures(readings[i][ut], fctx, notBuds[ut]);
       probabilities[i][ut] = model.predict(features[i][ut]);
       const auto& f = features[i][ut];
       e.occupancy = probabilities[i][ut];
-      // A lodged neighbour is no part of the bud ratio (computeFeatures), so a bud
+      // A neighbour is no part of the bud ratio (computeFeatures), so a bud
       // growing beside her still counts: buds grow where there is room, not under her.
       e.budRatio = f.hasMother ? f.budRatio : propose::kMissing;
       if (f.hasMother)
