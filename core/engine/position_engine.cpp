@@ -155,10 +155,13 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   // residuals, and no two empty traps look alike (too few empties); a disk out in the
   // open medium cannot tell an occupied trap from an empty one (too many). Over the
   // cup itself the count is low and flat. So when the guess's count is either
-  // implausible, disks within two mother radii are tried and, of those with a
-  // plausible count, the one that finds the fewest empties is kept (nearest the guess
-  // among equals); if no disk of the usual size qualifies, smaller disks are tried,
-  // which fit between posts that a larger one straddles. With none, the guess stays.
+  // implausible, disks of the usual size and smaller ones (which fit between posts
+  // that a larger one straddles) are tried within two mother radii and, of those with
+  // a plausible count, the one that finds the fewest empties is kept (nearest the
+  // guess among equals). Both sizes compete: a large disk resting on a post's edge can
+  // pass with a plausible count while a small one over the cup finds fewer (trying
+  // small disks only when no large one passed lost every mother of one held-out
+  // position, docs/validation.md). With none, the guess stays.
   const int sampled = static_cast<int>(N) * S;
   const int fewest = std::max(measure::BackgroundSearch::kMinEmpty, sampled / 50);
   const int most = sampled * 3 / 10;
@@ -166,7 +169,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   if (found < fewest || found > most) {
     // Fewest empties first, then nearest the guess (grid units).
     std::pair<int, double> best{std::numeric_limits<int>::max(), 0.0};
-    for (double radius : {bo.cupRadiusPx, 0.8 * startRadius}) {
+    for (double radius : {bo.cupRadiusPx, 0.8 * startRadius})
       for (double fy = -2.0; fy <= 2.0; fy += 0.5)
         for (double fx = -2.0; fx <= 2.0; fx += 0.5) {
           const cv::Point2d c(in.cup.x + fx * startRadius, in.cup.y + fy * startRadius);
@@ -177,8 +180,6 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
           empties = std::move(e);
           cup = c;
         }
-      if (best.first <= most) break;
-    }
   }
   const auto background = search.model(std::move(empties));
   measure::SegmentParams seg = options.segment;
