@@ -5,7 +5,8 @@
 // re-estimated from the position's own evidence by a few Baum-Welch rounds
 // pooled over its traps, starting from common-practice defaults; then each
 // trap is decoded with Viterbi and each event gets its posterior probability
-// (forward-backward) of happening within one frame of the call.
+// (forward-backward) of happening within one frame of the call. A death the
+// posterior does not back is taken out and the trap decoded again without it.
 //
 // Invariants: events are per trap in frame order; a trap flagged
 // crowded-throughout gets no events (nothing can be told apart in it); every

@@ -267,6 +267,25 @@ TEST(EdgeCases, DeadMotherFlickeringIsOneRecord) {
     }
 }
 
+// A living mother who looks somewhat dead for eight frames (a crowd pressing on her, an
+// odd outline) and is then missed for two: the full likelihood overstates such frames
+// (several channels read one outline), and the decoded path called a death there and
+// a new arrival after the gap (confidences 0.007 and 0.012), splitting her record.
+// The tempered posterior never backed that death, so it is not called.
+TEST(EdgeCases, DeathThePosteriorDoesNotBackIsNotCalled) {
+  Script s;
+  s.cycles(6);
+  s.add(single(0.7), 8);
+  s.add(empty(), 2);
+  s.cycles(6);
+  s.add(single(), 3);
+  const auto o = decode(s.ev);
+  EXPECT_EQ(o.count(EventKind::Death), 0);
+  EXPECT_EQ(o.count(EventKind::Arrival), 0);
+  ASSERT_EQ(o.lineage.tenures.size(), 1u);
+  EXPECT_NEAR(o.lineage.tenures[0].divisions, 12, 1);
+}
+
 TEST(EdgeCases, AlwaysCrowdedTrapGetsNoEventsAndAFlag) {
   TrapEvidence ev;
   for (int t = 0; t < 120; ++t) ev.push_back(t % 9 == 0 ? budded(0.3) : crowded());
