@@ -85,6 +85,40 @@ TEST(Features, SqueezedBudIsAttachedByItsOutlineGapAndItsPiecesAddUp) {
   EXPECT_GE(d.nearOthers, 1);  // and read as crowding
 }
 
+// A mother carries one bud at a time (common practice). A daughter who has separated
+// but still presses against her on one side while the next bud shows on the other is
+// not part of the bud: the ratio is the new bud's alone, so the separation and the new
+// bud show. A small second piece beside a small bud still adds up.
+TEST(Features, DaughterOnTheOtherSideOfANewBudIsNoPartOfIt) {
+  CropReading r;
+  Cell m;
+  m.x = 32;
+  m.y = 30;
+  m.areaPx = std::numbers::pi * 8 * 8;  // about 201 px
+  m.gapToMotherPx = 0;
+  m.role = CellRole::Mother;
+  Cell daughter;  // below her, 0.6 of her area
+  daughter.x = 32;
+  daughter.y = 44;
+  daughter.areaPx = 120;
+  daughter.gapToMotherPx = 0;
+  Cell bud = daughter;  // above her, new
+  bud.y = 20;
+  bud.areaPx = 12;
+  r.cells = {m, daughter, bud};
+  r.mother = 0;
+  EXPECT_NEAR(computeFeatures(r, context()).budRatio, 12 / m.areaPx, 1e-9);
+  // Both small (the daughter gone, a sliver read on the other side): they add up, as
+  // nothing there is of a daughter's size.
+  r.cells[1].areaPx = 30;
+  EXPECT_NEAR(computeFeatures(r, context()).budRatio, 42 / m.areaPx, 1e-9);
+  // On one side, the same two cells are one bud cut in two.
+  r.cells[1].areaPx = 120;
+  r.cells[2].y = 46;
+  r.cells[2].x = 38;
+  EXPECT_NEAR(computeFeatures(r, context()).budRatio, 132 / m.areaPx, 1e-9);
+}
+
 TEST(Features, UnchangingNeighbourIsLodgedAndGrowingBudIsNot) {
   // Twelve frames: a bud that grows, then a neighbour that stays the same size.
   std::vector<CropReading> growing, lodged;
