@@ -32,7 +32,7 @@ struct SegmentParams {
   double smoothSigmaPx = 1.0;
   double motherRadiusPx = 9;          // expected; refined per position from the cells themselves
   double minCellAreaFraction = 0.03;  // of the expected mother area
-  double minBudAreaFraction = 0.05;   // a bud still joined to the mother, same unit
+  double minBudAreaFraction = 0.025;  // a bud still joined to the mother, same unit
   double seatRadiusFactor = 1.0;      // mother centre within this many radii of the cup
   double minMotherAreaFraction = 0.25;
   double neckRatio = 0.75;  // peaks joined by a ridge this high (of the lower peak) are one cell
