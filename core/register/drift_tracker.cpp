@@ -3,10 +3,41 @@
 #include <algorithm>
 #include <cmath>
 
+#include <opencv2/imgproc.hpp>
+
 namespace budledger::registration {
 namespace {
 // A frame filled in from its neighbours was not measured: never more than this.
 constexpr double kInterpolatedConfidence = 0.3;
+// An alias of a large move replaces it only if it matches the previous frame clearly
+// better: its residual (1 - correlation coefficient) under this share of the move's.
+constexpr double kAliasResidual = 0.75;
+
+// Frames are compared with the previous one at half resolution, band-passed.
+constexpr int kReduce = 2;
+cv::Mat reduce(const cv::Mat& image) {
+  cv::Mat f, small;
+  image.convertTo(f, CV_32F);
+  cv::resize(f, small, cv::Size(image.cols / kReduce, image.rows / kReduce), 0, 0,
+             cv::INTER_AREA);
+  // Band-pass: noise out, and the illumination, which stays with the camera while the
+  // chip moves, out too.
+  cv::Mat fine, broad;
+  cv::GaussianBlur(small, fine, cv::Size(0, 0), 1.0);
+  cv::GaussianBlur(small, broad, cv::Size(0, 0), 8.0);
+  return fine - broad;
+}
+
+// Zero-mean normalised cross-correlation of two same-size images (gain and offset,
+// such as lamp flicker, cancel).
+double zncc(const cv::Mat& a, const cv::Mat& b) {
+  cv::Scalar ma, sa, mb, sb;
+  cv::meanStdDev(a, ma, sa);
+  cv::meanStdDev(b, mb, sb);
+  if (sa[0] <= 0 || sb[0] <= 0) return -1;
+  cv::Mat da = a - ma[0], db = b - mb[0];
+  return da.dot(db) / (static_cast<double>(a.total()) * sa[0] * sb[0]);
+}
 
 double median(std::vector<double> v) {
   if (v.empty()) return 0;
@@ -20,7 +51,9 @@ DriftTracker::DriftTracker(Registrar& registrar, const TrackOptions& options)
     : registrar_(registrar), options_(options) {}
 
 void DriftTracker::add(int frame, const cv::Mat& image) {
-  const Measurement m = registrar_.measure(image, prediction_);
+  Measurement m = registrar_.measure(image, prediction_);
+  if (!previous_.empty() && cv::norm(m.shift - prediction_) > options_.jumpPx)
+    m = resolveAlias(image, m);
   const double quality = m.correlation;
   frames_.push_back(frame);
   raw_.push_back(m);
@@ -30,9 +63,65 @@ void DriftTracker::add(int frame, const cv::Mat& image) {
   const bool trusted = recentMatches_.size() < 3 || quality >= options_.failFraction * typical;
   if (trusted) {
     prediction_ = m.shift;
+    image.copyTo(previous_);  // reduced only when a large move needs it
+    previousShift_ = m.shift;
     recentMatches_.push_back(quality);
     if (recentMatches_.size() > 15) recentMatches_.erase(recentMatches_.begin());
   }
+}
+
+// On a lattice of traps, a stage jump of nearly a pitch is closer to the alias one
+// pitch back than to the last position, and the reference (hours earlier) cannot tell
+// them apart: the posts match either way, and only the cells, which have changed since,
+// and the array's edges differ. The previous frame has the same cells: the true shift
+// lines them up as well as the posts, an alias lines each trap up with its neighbour.
+// So after a large move the chosen shift and its aliases one lattice vector away are
+// compared with the previous frame, and the best is refined. (On one held-out hard
+// position a jump of 0.8 pitch was taken one trap column short, and every trap read
+// its neighbour for the rest of the movie.)
+Measurement DriftTracker::resolveAlias(const cv::Mat& image, const Measurement& m) const {
+  const RegistrationOptions& o = registrar_.options();
+  const cv::Point2d a = o.latticeA, b = o.latticeB;
+  if (std::abs(a.x * b.y - a.y * b.x) < 1e-6) return m;
+  const cv::Mat now = reduce(image), before = reduce(previous_);
+  const double chosen = agreement(now, before, m.shift);
+  double best = chosen;
+  cv::Point2d bestShift = m.shift;
+  for (int i = -1; i <= 1; ++i)
+    for (int j = -1; j <= 1; ++j) {
+      if (i == 0 && j == 0) continue;
+      const cv::Point2d c = m.shift + i * a + j * b;
+      const double score = agreement(now, before, c);
+      if (score > best) {
+        best = score;
+        bestShift = c;
+      }
+    }
+  if (bestShift == m.shift || 1 - best > kAliasResidual * (1 - chosen)) return m;
+  Measurement alt = registrar_.refineOnly(image, bestShift);
+  alt.jump = true;
+  return alt.refined ? alt : m;
+}
+
+// How well `now` (this frame, reduced) matches `before` (the previous frame, reduced)
+// if this frame's shift is `shift`: both then show the same chip point at the same
+// place, so this frame at y matches the previous one at y - (shift - previousShift).
+// -1 when they barely overlap.
+double DriftTracker::agreement(const cv::Mat& now, const cv::Mat& before,
+                               cv::Point2d shift) const {
+  const cv::Point2d d = (shift - previousShift_) / kReduce;
+  const int dx = static_cast<int>(std::floor(d.x)), dy = static_cast<int>(std::floor(d.y));
+  const cv::Rect frame(0, 0, now.cols, now.rows);
+  // One pixel short of the integer overlap, for the sub-pixel part of the shift.
+  cv::Rect here = frame & (frame + cv::Point(dx, dy));
+  here = cv::Rect(here.x + 1, here.y + 1, here.width - 2, here.height - 2);
+  if (here.width <= 0 || here.height <= 0 || here.area() < frame.area() / 4) return -1;
+  // The previous frame at y - d, sampled bilinearly (posts' edges misplaced by a
+  // fraction of a pixel would outweigh the cells).
+  const cv::Mat M = (cv::Mat_<double>(2, 3) << 1, 0, d.x, 0, 1, d.y);  // dst(y) = src(y - d)
+  cv::Mat carried;
+  cv::warpAffine(before, carried, M, before.size(), cv::INTER_LINEAR, cv::BORDER_REPLICATE);
+  return zncc(now(here), carried(here));
 }
 
 DriftTrack DriftTracker::finish() const {

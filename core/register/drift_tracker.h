@@ -43,12 +43,19 @@ class DriftTracker {
   DriftTrack finish() const;
 
  private:
+  // A move from the prediction larger than a jump may have landed on a lattice alias
+  // of the true shift; the previous frame decides (see the .cpp).
+  Measurement resolveAlias(const cv::Mat& image, const Measurement& m) const;
+  double agreement(const cv::Mat& now, const cv::Mat& before, cv::Point2d shift) const;
+
   Registrar& registrar_;
   TrackOptions options_;
   std::vector<int> frames_;
   std::vector<Measurement> raw_;
   std::vector<double> recentMatches_;
   cv::Point2d prediction_{0, 0};
+  cv::Mat previous_;  // the last trusted frame
+  cv::Point2d previousShift_{0, 0};
 };
 
 }  // namespace budledger::registration
