@@ -101,6 +101,47 @@ int argmax4(const std::array<double, 4>& q) {
   return static_cast<int>(std::max_element(q.begin(), q.end()) - q.begin());
 }
 
+// How far a bud may move from where the decoded path put it (frames).
+constexpr int kBudReach = 2;
+
+// The path is the likeliest sequence as a whole; the frame a bud is likeliest to have
+// emerged at, given all the evidence, is the mode of its own posterior, and the two
+// differ where a bud's first, smallest frames are read uncertainly (the path waited
+// for the bud ratio to be unambiguous: buds two frames late were the largest single
+// source of review edits). Each bud moves to the frame of highest posterior bud
+// probability within kBudReach of its call, never past the events on either side of it
+// (a separation in the same frame may stay); its confidence follows it.
+void placeBudsAtPosteriorMode(const std::vector<double>& budPosterior,
+                              std::vector<Event>& events) {
+  const int T = static_cast<int>(budPosterior.size());
+  for (std::size_t i = 0; i < events.size(); ++i) {
+    Event& ev = events[i];
+    if (ev.kind != EventKind::Bud) continue;
+    int lo = std::max(1, ev.frame - kBudReach), hi = std::min(T - 1, ev.frame + kBudReach);
+    for (std::size_t j = i; j-- > 0;)
+      if (events[j].kind != EventKind::Bud) {
+        lo = std::max(lo, events[j].frame);
+        break;
+      }
+    for (std::size_t j = i + 1; j < events.size(); ++j)
+      if (events[j].kind != EventKind::Bud) {
+        hi = std::min(hi, events[j].frame - 1);
+        break;
+      }
+    int best = ev.frame;
+    for (int u = lo; u <= hi; ++u)
+      if (budPosterior[static_cast<std::size_t>(u)] >
+          budPosterior[static_cast<std::size_t>(best)] + 1e-9)
+        best = u;
+    if (best == ev.frame) continue;
+    ev.frame = best;
+    double conf = 0;
+    for (int u = std::max(1, best - 1); u <= std::min(T - 1, best + 1); ++u)
+      conf += budPosterior[static_cast<std::size_t>(u)];
+    ev.confidence = std::clamp(conf, 0.0, 1.0);
+  }
+}
+
 // A death the decoded path calls but the calibrated posterior does not back: less than
 // this expected number of deaths within kDeathSupportMin of it, and the mother not yet
 // likely dead in that time after it (a true death called late is dead already by the
@@ -249,6 +290,7 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
       out.events.push_back(ev);
     }
   }
+  placeBudsAtPosteriorMode(expected[static_cast<std::size_t>(EventKind::Bud)], out.events);
   return out;
 }
 

@@ -39,7 +39,8 @@ struct ProposeOptions {
   // share its errors, so their product overstates the evidence: posteriors (the events'
   // confidences) were near 0.99 for calls right 70-85% of the time. They are computed
   // from log-likelihoods scaled by this factor (a tempered likelihood); the Viterbi
-  // calls use the full one, so the events do not change. Fitted once on the occupancy
+  // path uses the full one (only where buds sit within it and whether an unbacked death
+  // stands are read from the tempered posterior, proposer.cpp). Fitted once on the occupancy
   // model's training stacks (preset seeds 101-104; mean expected calibration error over
   // the four 0.090 at 1, 0.051 at 0.5, 0.029 at 0.35, 0.038 at 0.25) and then held fixed.
   double confidenceTemper = 0.35;

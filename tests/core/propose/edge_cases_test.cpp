@@ -286,6 +286,32 @@ TEST(EdgeCases, DeathThePosteriorDoesNotBackIsNotCalled) {
   EXPECT_NEAR(o.lineage.tenures[0].divisions, 12, 1);
 }
 
+// A bud's first frame is read uncertainly: a small ratio the unbudded spread also
+// covers, and the classifier leaning to a single cell. The path waited for the
+// unambiguous second frame (0 of 12 buds on time); the bud's own posterior puts it
+// where it began.
+TEST(EdgeCases, BudsArePlacedWhereTheirPosteriorPeaks) {
+  Script s;
+  std::vector<int> buds;
+  for (int c = 0; c < 12; ++c) {
+    s.add(single(), 2);
+    buds.push_back(static_cast<int>(s.ev.size()));
+    FrameEvidence first = budded(0.03);
+    first.occupancy = {0.02, 0.7, 0.26, 0.02};
+    s.add(first);
+    for (int i = 1; i < 6; ++i) s.add(budded(0.06 + 0.45 * i / 5.0));
+  }
+  s.add(single(), 3);
+  const auto o = decode(s.ev);
+  std::vector<int> got;
+  for (const auto& e : o.calls.events)
+    if (e.kind == EventKind::Bud) got.push_back(e.frame);
+  ASSERT_EQ(got.size(), buds.size());
+  int exact = 0;
+  for (std::size_t i = 0; i < got.size(); ++i) exact += got[i] == buds[i];
+  EXPECT_GE(exact, 9);
+}
+
 TEST(EdgeCases, AlwaysCrowdedTrapGetsNoEventsAndAFlag) {
   TrapEvidence ev;
   for (int t = 0; t < 120; ++t) ev.push_back(t % 9 == 0 ? budded(0.3) : crowded());
