@@ -145,9 +145,9 @@ void placeBudsAtPosteriorMode(const std::vector<double>& budPosterior,
 // A death the decoded path calls but the calibrated posterior does not back: less than
 // this expected number of deaths within kDeathSupportMin of it, and the mother not yet
 // likely dead in that time after it (a true death called late is dead already by the
-// posterior). Such calls were nearly all false on the validation sets (19 of 19 under
-// 0.1 within two hours, 1 of 23 under 0.2 true), and each split a living mother's
-// record in two (docs/validation.md).
+// posterior). Such calls were nearly all false on the validation sets (all 19 with
+// under 0.1 within two hours; 1 of the 23 under 0.3 was true), and each split a living
+// mother's record in two (docs/validation.md).
 constexpr double kDeathSupport = 0.2;
 constexpr double kDeathSupportMin = 120;
 
