@@ -156,22 +156,12 @@ constexpr double kDeathSupportMin = 120;
 // evidence (see ProposeOptions::confidenceTemper), and a rare, absorbing state is where
 // that shows most: a few frames of a mother hidden by a crowd or read oddly can outweigh
 // the prior against dying, never against the tempered posterior.
-void rejectUnsupportedDeaths(const CycleModel& model, const SparseHmm::Posteriors& post,
-                             std::vector<double>& emission, int T, std::vector<int>& path) {
-  const auto& arcs = model.hmm().arcs();
-  const std::size_t A = arcs.size();
+// `deaths`: expected deaths entering each frame, `pDead`: P(dead) per frame, both from
+// the tempered posterior.
+void rejectUnsupportedDeaths(const CycleModel& model, const std::vector<double>& deaths,
+                             const std::vector<float>& pDead, std::vector<double>& emission,
+                             int T, std::vector<int>& path) {
   const int S = model.stateCount();
-  std::vector<double> deaths(static_cast<std::size_t>(T), 0.0);
-  for (int t = 1; t < T; ++t)
-    for (std::size_t a = 0; a < A; ++a)
-      if (static_cast<Transition>(arcs[a].tag) == Transition::Death)
-        deaths[static_cast<std::size_t>(t)] += post.arc[static_cast<std::size_t>(t) * A + a];
-  std::vector<double> pDead(static_cast<std::size_t>(T), 0.0);
-  for (int t = 0; t < T; ++t)
-    for (int k = 1; k <= model.deadFrames(); ++k)
-      pDead[static_cast<std::size_t>(t)] +=
-          post.state[static_cast<std::size_t>(t) * static_cast<std::size_t>(S) +
-                     static_cast<std::size_t>(model.deadState(k))];
   const int reach = std::max(
       1, static_cast<int>(std::lround(kDeathSupportMin / model.params().intervalMin)));
   constexpr int kMaxRounds = 4;
@@ -185,7 +175,7 @@ void rejectUnsupportedDeaths(const CycleModel& model, const SparseHmm::Posterior
         support += deaths[static_cast<std::size_t>(u)];
       double deadAfter = 0;  // a late call of a true death: dead already, per the posterior
       for (int u = t; u <= std::min(T - 1, t + reach); ++u)
-        deadAfter = std::max(deadAfter, pDead[static_cast<std::size_t>(u)]);
+        deadAfter = std::max(deadAfter, static_cast<double>(pDead[static_cast<std::size_t>(u)]));
       if (support < kDeathSupport && deadAfter < 0.5) from = t;
     }
     if (from < 0) return;
@@ -218,7 +208,6 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
   std::vector<double> tempered = em;
   for (double& v : tempered) v *= confidenceTemper;
   const auto post = hmm.forwardBackward(tempered, T);
-  rejectUnsupportedDeaths(model, post, em, T, out.path);
 
   out.pLive.resize(static_cast<std::size_t>(T));
   out.pBudded.resize(static_cast<std::size_t>(T));
@@ -270,6 +259,8 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
       for (EventKind k : eventsOf(static_cast<Transition>(arcs[a].tag)))
         expected[static_cast<std::size_t>(k)][static_cast<std::size_t>(t)] += p;
     }
+  rejectUnsupportedDeaths(model, expected[static_cast<std::size_t>(EventKind::Death)], out.pDead,
+                          em, T, out.path);
   for (int t = 1; t < T; ++t) {
     const int from = out.path[static_cast<std::size_t>(t - 1)];
     const int to = out.path[static_cast<std::size_t>(t)];
