@@ -28,17 +28,6 @@ cv::Mat reduce(const cv::Mat& image) {
   return fine - broad;
 }
 
-// Zero-mean normalised cross-correlation of two same-size images (gain and offset,
-// such as lamp flicker, cancel).
-double zncc(const cv::Mat& a, const cv::Mat& b) {
-  cv::Scalar ma, sa, mb, sb;
-  cv::meanStdDev(a, ma, sa);
-  cv::meanStdDev(b, mb, sb);
-  if (sa[0] <= 0 || sb[0] <= 0) return -1;
-  cv::Mat da = a - ma[0], db = b - mb[0];
-  return da.dot(db) / (static_cast<double>(a.total()) * sa[0] * sb[0]);
-}
-
 double median(std::vector<double> v) {
   if (v.empty()) return 0;
   const auto mid = v.begin() + static_cast<long>(v.size() / 2);
@@ -121,7 +110,11 @@ double DriftTracker::agreement(const cv::Mat& now, const cv::Mat& before,
   const cv::Mat M = (cv::Mat_<double>(2, 3) << 1, 0, d.x, 0, 1, d.y);  // dst(y) = src(y - d)
   cv::Mat carried;
   cv::warpAffine(before, carried, M, before.size(), cv::INTER_LINEAR, cv::BORDER_REPLICATE);
-  return zncc(now(here), carried(here));
+  // Zero-mean normalised cross-correlation (gain and offset, such as lamp flicker,
+  // cancel): a template match of two same-size images has one position.
+  cv::Mat score;
+  cv::matchTemplate(now(here), carried(here), score, cv::TM_CCOEFF_NORMED);
+  return score.at<float>(0, 0);
 }
 
 DriftTrack DriftTracker::finish() const {
