@@ -108,8 +108,9 @@ TEST(Segment, AttachedBudIsSplitFromTheMother) {
   }
 }
 
-// A bud just emerged (about 1 µm across, common practice for the first bud a person
-// marks) still has no neck for the watershed: she is the part of the mother's region
+// A bud just emerged (about 1 µm across: the simulator's choice of when a bud counts
+// as emerged, docs/simulator.md, not a published value) still has no neck for the
+// watershed: she is the part of the mother's region
 // beyond her inscribed circle, a few percent of the mother's area. A lone round mother
 // gives no such part (SeatedMotherIsFoundWithHerSize).
 TEST(Segment, JustEmergedBudIsSplitFromTheMother) {
