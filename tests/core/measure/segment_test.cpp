@@ -110,9 +110,9 @@ TEST(Segment, AttachedBudIsSplitFromTheMother) {
 
 // A bud just emerged (about 1 µm across: the simulator's choice of when a bud counts
 // as emerged, docs/simulator.md, not a published value) still has no neck for the
-// watershed: she is the part of the mother's region
-// beyond her inscribed circle, a few percent of the mother's area. A lone round mother
-// gives no such part (SeatedMotherIsFoundWithHerSize).
+// watershed: she is the part of the mother's region beyond her inscribed circle, a few
+// percent of the mother's area. A lone round mother gives no such part
+// (SeatedMotherIsFoundWithHerSize).
 TEST(Segment, JustEmergedBudIsSplitFromTheMother) {
   Scene s;
   s.cells = {{32, 30, 8, 8}, {32, 39.5, 2.5, 2.5}};  // bud downstream, 4 px beyond her
