@@ -190,6 +190,52 @@ void rejectUnsupportedDeaths(const CycleModel& model, const std::vector<double>&
   }
 }
 
+// The most empty frames between a corpse leaving and a "newcomer" arriving for the two
+// to be taken for one corpse missed by the outline, unless the posterior has the trap
+// dead at the arrival anyway (see mergeCorpseFlickers).
+constexpr int kFlickerGap = 2;
+
+// A corpse the outline misses for a frame or two reads as the mother leaving and a new
+// one arriving; the newcomer never buds and soon "dies" (a corpse whose look recovered
+// part of its change fits a fresh death's young ages better than the oldest one), and
+// the same repeats every few hours: a string of short false records after one true
+// death (78 such arrival-death pairs in a sweep of 30 fresh seeds, docs/validation.md).
+// Where the path leaves the dead states and, after at most kFlickerGap empty frames (or
+// more while the tempered posterior `pDead` still has the trap dead), holds a live
+// mother who dies without a bud or a separation, the whole stretch is one corpse: every
+// state but the dead ones is forbidden over it and the trap decoded again.
+void mergeCorpseFlickers(const CycleModel& model, const std::vector<float>& pDead,
+                         std::vector<double>& emission, int T, std::vector<int>& path) {
+  const int S = model.stateCount();
+  auto state = [&](int t) { return path[static_cast<std::size_t>(t)]; };
+  constexpr int kMaxRounds = 8;
+  for (int round = 0; round < kMaxRounds; ++round) {
+    bool changed = false;
+    for (int t = 1; t < T; ++t) {
+      if (!model.isDead(state(t - 1)) || model.isDead(state(t))) continue;
+      int arrival = t;  // first frame after the empty ones
+      while (arrival < T && model.group(state(arrival)) == StateGroup::Empty) ++arrival;
+      if (arrival >= T || !model.isLive(state(arrival))) continue;
+      if (arrival - t > kFlickerGap && pDead[static_cast<std::size_t>(arrival)] < 0.5) continue;
+      int end = arrival;  // first frame after the live stretch
+      bool divided = false;
+      for (; end < T && model.isLive(state(end)); ++end)
+        divided = divided || (end > arrival && (model.budAge(state(end)) == 1 ||
+                                                model.justSeparated(state(end))));
+      if (divided || end >= T || !model.isDead(state(end))) continue;
+      for (int u = t; u < end; ++u)
+        for (int s = 0; s < S; ++s)
+          if (!model.isDead(s))
+            emission[static_cast<std::size_t>(u) * static_cast<std::size_t>(S) +
+                     static_cast<std::size_t>(s)] = -std::numeric_limits<double>::infinity();
+      changed = true;
+      t = end;
+    }
+    if (!changed) return;
+    path = model.hmm().viterbi(emission, T);
+  }
+}
+
 }  // namespace
 
 TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
@@ -261,6 +307,7 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
     }
   rejectUnsupportedDeaths(model, expected[static_cast<std::size_t>(EventKind::Death)], out.pDead,
                           em, T, out.path);
+  mergeCorpseFlickers(model, out.pDead, em, T, out.path);
   for (int t = 1; t < T; ++t) {
     const int from = out.path[static_cast<std::size_t>(t - 1)];
     const int to = out.path[static_cast<std::size_t>(t)];

@@ -6,7 +6,9 @@
 // pooled over its traps, starting from common-practice defaults; then each
 // trap is decoded with Viterbi and each event gets its posterior probability
 // (forward-backward) of happening within one frame of the call. A death the
-// posterior does not back is taken out and the trap decoded again without it.
+// posterior does not back is taken out and the trap decoded again without it, and so
+// is a "newcomer" who never buds and dies right after a corpse left: the corpse, missed
+// for a frame or two.
 //
 // Invariants: events are per trap in frame order; a trap flagged
 // crowded-throughout gets no events (nothing can be told apart in it); every
