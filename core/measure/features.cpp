@@ -167,6 +167,11 @@ std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& r
       const double before = areaRatio(k - 1), now = areaRatio(k);
       if (mem[k].frame - mem[k - 1].frame > 1 + kMissedFrames || before < kDaughterSize) continue;
       if (now < before || mem[k].dist - mem[k - 1].dist < kLetGoMove) continue;
+      // She stays out in the next reading: a growing bud's outline, read with more or
+      // less of the neck, jumps out for a frame and back.
+      if (k + 1 < n && mem[k + 1].frame - mem[k].frame <= 1 + kMissedFrames &&
+          mem[k + 1].dist - mem[k - 1].dist < kLetGoMove)
+        continue;
       for (std::size_t j = k; j < n && areaRatio(j) > now / 1.4 && areaRatio(j) < now * 1.4; ++j)
         lodged[j] = true;
     }
