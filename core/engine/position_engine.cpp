@@ -298,8 +298,10 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
                                              segKeep, &noiseMaps[i]);
     }
     // Per frame, the cells beside the mother that are not buds: lodged or let-go
-    // neighbours, and the seams between her and them (right after a daughter lets go,
-    // the seam read as an immediate new bud, two frames early). The rest of the cells
+    // neighbours, and the seams between her and them or a daughter already apart from
+    // her (right after a daughter lets go, the seam read as an immediate new bud, two
+    // frames early; a daughter leaving through the outlet gap left her part between the
+    // posts against the mother, and the separation was missed). The rest of the cells
     // attached to her are the bud candidates.
     auto notBuds = measure::lodgedNeighbours(readings[i], fctx, lodgeFrames);
     std::vector<std::vector<int>> attached(static_cast<std::size_t>(T));
@@ -307,7 +309,9 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       const auto ut = static_cast<std::size_t>(t);
       if (!informative[ut]) continue;
       auto& n = notBuds[ut];
-      const auto seams = measure::seamsAgainst(readings[i][ut], fctx, n, kSeamArea);
+      std::vector<int> pressing = measure::daughtersApart(readings[i][ut], fctx);
+      pressing.insert(pressing.end(), n.begin(), n.end());
+      const auto seams = measure::seamsAgainst(readings[i][ut], fctx, pressing, kSeamArea);
       n.insert(n.end(), seams.begin(), seams.end());
       for (const auto& a : measure::attachedCells(readings[i][ut], fctx))
         if (std::find(n.begin(), n.end(), a.cell) == n.end()) attached[ut].push_back(a.cell);

@@ -87,6 +87,20 @@ std::vector<AttachedCell> attachedCells(const CropReading& r, const FeatureConte
   return out;
 }
 
+std::vector<int> daughtersApart(const CropReading& r, const FeatureContext& ctx) {
+  std::vector<int> out;
+  if (r.mother < 0) return out;
+  const Cell& m = r.cells[static_cast<std::size_t>(r.mother)];
+  const double rm = std::max(1.0, radiusOf(m.areaPx));
+  for (std::size_t i = 0; i < r.cells.size(); ++i) {
+    const Cell& c = r.cells[i];
+    if (static_cast<int>(i) != r.mother && gapBetween(m, c) / rm >= ctx.attachGap &&
+        c.areaPx >= kDaughterSize * m.areaPx)
+      out.push_back(static_cast<int>(i));
+  }
+  return out;
+}
+
 std::vector<std::vector<int>> lodgedNeighbours(const std::vector<CropReading>& readings,
                                                const FeatureContext& ctx, int minFrames) {
   struct Track {

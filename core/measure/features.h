@@ -72,6 +72,11 @@ double departedArea(const CropReading& before, const std::vector<int>& attachedB
 std::vector<int> seamsAgainst(const CropReading& reading, const FeatureContext& context,
                               const std::vector<int>& neighbours, double maxAreaRatio);
 
+// Cells of a daughter's size read apart from the mother (not attached): a daughter
+// leaving, or a neighbour. A small piece attached to the mother and touching one is a
+// seam against her (seamsAgainst), such as her part still in an outlet gap.
+std::vector<int> daughtersApart(const CropReading& reading, const FeatureContext& context);
+
 // Features of one reading; `excluded` cells (lodged neighbours) are not buds and count
 // as crowding.
 FrameFeatures computeFeatures(const CropReading& reading, const FeatureContext& context,

@@ -222,6 +222,36 @@ TEST(Features, SeamAgainstAPressedNeighbourIsNoBud) {
   EXPECT_TRUE(seamsAgainst(r, context(), {1}, 0.05).empty());  // large enough to be a bud
 }
 
+// A daughter leaving through the outlet gap is read in two: her part still between the
+// posts touches the mother and looked like a bud of a tenth of her size, so the bud
+// ratio hardly fell at the separation (fresh simulated seeds). A small attached piece
+// touching a daughter-sized cell already apart from the mother is a seam; a small bud
+// elsewhere on her is not.
+TEST(Features, PieceBetweenTheMotherAndALeavingDaughterIsNoBud) {
+  CropReading r;
+  r.mask = cv::Mat::zeros(64, 64, CV_16U);
+  auto cell = [&](double x, double y, double radius, int label, double gap) {
+    cv::circle(r.mask, {static_cast<int>(x), static_cast<int>(y)}, static_cast<int>(radius),
+               cv::Scalar(label), cv::FILLED);
+    Cell c;
+    c.x = x;
+    c.y = y;
+    c.areaPx = cv::countNonZero(r.mask == label);
+    c.gapToMotherPx = gap;
+    return c;
+  };
+  Cell m = cell(32, 24, 8, 1, 0), daughter = cell(32, 43, 6, 2, 5),
+       piece = cell(32, 34, 2.5, 3, 0), bud = cell(22, 18, 2.5, 4, 0);
+  r.cells = {m, daughter, piece, bud};
+  r.mother = 0;
+  ASSERT_EQ(attachedCells(r, context()).size(), 2u);  // the piece and the bud
+  const auto apart = daughtersApart(r, context());
+  ASSERT_EQ(apart, std::vector<int>{1});
+  EXPECT_EQ(seamsAgainst(r, context(), apart, 0.15), std::vector<int>{2});
+  r.cells[1].areaPx = 0.1 * r.cells[0].areaPx;  // a small cell apart is no daughter
+  EXPECT_TRUE(daughtersApart(r, context()).empty());
+}
+
 TEST(Features, DepartureSeesADaughterLeaveNotAMissedBud) {
   Scene before;
   before.cells = {{32, 30, 8, 8}, {32, 17.5, 5, 5}};
