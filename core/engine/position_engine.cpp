@@ -371,9 +371,6 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
       {"bud_ratio_unbudded",
        {calls.emission.budRatioUnbuddedMean, calls.emission.budRatioUnbuddedSigma}},
       {"bud_ratio_dead", {calls.emission.budRatioDeadMean, calls.emission.budRatioDeadSigma}},
-      {"bud_absent_by_age", calls.emission.budAbsentByAge},
-      {"bud_absent_unbudded", calls.emission.budAbsentUnbudded},
-      {"bud_absent_separated", calls.emission.budAbsentSeparated},
       {"morph_live_sigma", calls.emission.morphLiveSigma},
       {"morph_dead_mean", calls.emission.morphDeadMean}};
 

@@ -71,9 +71,6 @@ EmissionParams EmissionParams::defaults(int m, int k) {
   p.budRatioMean.resize(static_cast<std::size_t>(m));
   for (int k = 1; k <= m; ++k)
     p.budRatioMean[static_cast<std::size_t>(k - 1)] = 0.06 + 0.4 * (k - 1) / std::max(1, m - 1);
-  // A bud is missed in its first frame about as often as not, seldom after.
-  p.budAbsentByAge.assign(static_cast<std::size_t>(m), 0.05);
-  p.budAbsentByAge[0] = 0.4;
   p.deadLook = {0.05, 0.05, 0.05, 0.05, 0.05, 0.8};
   // No assumption on which way death moves each feature: learned by EM.
   p.morphDeadMean.assign(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0});
@@ -224,28 +221,20 @@ std::vector<double> emissionLogLikelihood(const CycleModel& model, const Emissio
       if (isKnown(f.budRatio)) {
         const int age = model.budAge(s);
         const StateGroup group = model.group(s);
-        const bool none = !(f.budRatio > 0);
-        double absent = 0.5, dens = ratioFlat;
-        if (age > 0) {
-          absent = params.budAbsentByAge[static_cast<std::size_t>(age - 1)];
+        double dens = ratioFlat;
+        if (age > 0)
           dens = gaussian(f.budRatio, params.budRatioMean[static_cast<std::size_t>(age - 1)],
                           params.budRatioSigma);
-        } else if (group == StateGroup::Unbudded) {
-          absent = model.justSeparated(s) ? params.budAbsentSeparated : params.budAbsentUnbudded;
+        else if (group == StateGroup::Unbudded)
           dens = gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
-        } else if (group == StateGroup::Dead) {
-          absent = params.budAbsentDead;
+        else if (group == StateGroup::Dead)
           dens = gaussian(f.budRatio, params.budRatioDeadMean, params.budRatioDeadSigma);
-        }
-        // What a reading unrelated to the state would give: an even chance of 0, else flat.
-        const double unrelated = none ? 0.5 : 0.5 * ratioFlat;
         // A neighbour pressed against the mother adds to the bud ratio while her own
         // outline is fine: the ratio alone can be wrong, so it has an outlier term of its
         // own (otherwise the only cheap home for such frames is a dead state).
-        const double l = (1 - params.outlier) * (none ? absent : (1 - absent) * dens) +
-                         params.outlier * unrelated;
-        valid += std::log(std::max(l, 1e-300));
-        flatAll += std::log(unrelated);
+        dens = (1 - params.outlier) * dens + params.outlier * ratioFlat;
+        valid += std::log(std::max(dens, 1e-300));
+        flatAll += std::log(ratioFlat);
       }
       if (model.stateGroupHasMother(s)) {
         const double a = std::log1p(-params.misread) + valid;
@@ -273,8 +262,6 @@ EmissionStatistics::EmissionStatistics(int m, int k)
     : ratioW_(static_cast<std::size_t>(m), 0.0),
       ratioSum_(static_cast<std::size_t>(m), 0.0),
       ratioSq_(static_cast<std::size_t>(m), 0.0),
-      absentW_(static_cast<std::size_t>(m) + 2, 0.0),
-      readW_(static_cast<std::size_t>(m) + 2, 0.0),
       deadW_(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0}),
       deadSum_(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0}),
       deadSq_(static_cast<std::size_t>(std::max(1, k)), {0.0, 0.0, 0.0}) {}
@@ -333,26 +320,18 @@ void EmissionStatistics::add(const CycleModel& model, const EmissionParams& para
       }
       const int age = model.budAge(s);
       const StateGroup group = model.group(s);
-      if (isKnown(f.budRatio) && (age > 0 || group == StateGroup::Unbudded)) {
-        // Which share of readings are 0, and the Gaussian of the others.
-        const std::size_t row = age > 0                ? static_cast<std::size_t>(age - 1)
-                                : model.justSeparated(s) ? readW_.size() - 1
-                                                         : readW_.size() - 2;
-        readW_[row] += w;
-        if (!(f.budRatio > 0)) {
-          absentW_[row] += w;
-        } else if (age > 0) {
-          const auto k = static_cast<std::size_t>(age - 1);
-          // Down-weight readings the outlier component explains better.
-          const double dens = gaussian(f.budRatio, params.budRatioMean[k], params.budRatioSigma);
-          addReading(ratioW_[k], ratioSum_[k], ratioSq_[k], w * inlierShare(dens, params),
-                     f.budRatio);
-        } else {
-          const double dens =
-              gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
-          addReading(unbuddedW_, unbuddedSum_, unbuddedSq_, w * inlierShare(dens, params),
-                     f.budRatio);
-        }
+      if (age == 0 && isKnown(f.budRatio) && group == StateGroup::Unbudded) {
+        const double dens =
+            gaussian(f.budRatio, params.budRatioUnbuddedMean, params.budRatioUnbuddedSigma);
+        addReading(unbuddedW_, unbuddedSum_, unbuddedSq_, w * inlierShare(dens, params),
+                   f.budRatio);
+      }
+      if (age > 0 && isKnown(f.budRatio)) {
+        const auto k = static_cast<std::size_t>(age - 1);
+        // Down-weight readings the outlier component explains better.
+        const double dens = gaussian(f.budRatio, params.budRatioMean[k], params.budRatioSigma);
+        const double inlier = inlierShare(dens, params);
+        addReading(ratioW_[k], ratioSum_[k], ratioSq_[k], w * inlier, f.budRatio);
       }
     }
   }
@@ -372,10 +351,6 @@ void EmissionStatistics::merge(const EmissionStatistics& o) {
     departW_[g] += o.departW_[g];
     departSum_[g] += o.departSum_[g];
     departSq_[g] += o.departSq_[g];
-  }
-  for (std::size_t k = 0; k < absentW_.size() && k < o.absentW_.size(); ++k) {
-    absentW_[k] += o.absentW_[k];
-    readW_[k] += o.readW_[k];
   }
   unbuddedW_ += o.unbuddedW_;
   unbuddedSum_ += o.unbuddedSum_;
@@ -442,19 +417,6 @@ EmissionParams EmissionStatistics::estimate(const EmissionParams& prior, double 
     p.departOtherMean = std::clamp(other.mean, 0.0, 0.5);
     p.departOtherSigma = std::clamp(other.sigma, 0.02, 0.5);
   }
-  // Chances of a 0 reading. A grown bud is almost never missed (about 1 in 300 frames
-  // on simulated stacks), so the floor is low; at 0.02 a missed frame cost a budded
-  // state too little against a separation. The first bud age learns a lower chance than
-  // its readings show, since the path puts a bud's onset where it is first read;
-  // holding it at its starting value was no better (docs/validation.md).
-  auto absentShare = [&](std::size_t row, double priorShare) {
-    return std::clamp((absentW_[row] + priorWeight * priorShare) / (readW_[row] + priorWeight),
-                      0.002, 0.998);
-  };
-  for (std::size_t k = 0; k < p.budAbsentByAge.size() && k + 2 < readW_.size(); ++k)
-    p.budAbsentByAge[k] = absentShare(k, prior.budAbsentByAge[k]);
-  p.budAbsentUnbudded = absentShare(readW_.size() - 2, prior.budAbsentUnbudded);
-  p.budAbsentSeparated = absentShare(readW_.size() - 1, prior.budAbsentSeparated);
   // Bud ages must keep growing, or the chain could explain a shrinking bud.
   for (std::size_t k = 1; k < p.budRatioMean.size(); ++k)
     p.budRatioMean[k] = std::max(p.budRatioMean[k], p.budRatioMean[k - 1]);

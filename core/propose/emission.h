@@ -4,9 +4,9 @@
 //  - occupancy: the classifier's posteriors become scaled likelihoods
 //    q(c)/prior(c) (Bourlard & Morgan's hybrid HMM), mixed by P(class | state
 //    group), a confusion table learned from the data by EM;
-//  - bud size: bud/mother area ratio (only when a mother was measured): 0 when
-//    no bud was found, with a chance per state, else Gaussian around a mean that
-//    grows with the bud's age, small for an unbudded mother, broad for a dead one;
+//  - bud size: bud/mother area ratio (0 without a bud; only when a mother was
+//    measured), Gaussian around a mean that grows with the bud's age, near
+//    zero for an unbudded mother, broad for a dead one;
 //  - departure: area other cells left near the mother since the last frame,
 //    large just after a separation (the daughter carried away);
 //  - dead look: the morphology score, mixed by P(dead look | state group);
@@ -34,24 +34,11 @@ struct EmissionParams {
   // Mean bud/mother area ratio by bud age 1..m (index 0 is age 1).
   std::vector<double> budRatioMean;
   double budRatioSigma = 0.08;
-  // Bud ratio (when not 0) where no bud grows: an unbudded mother (a remnant of the
-  // daughter, a piece of the outline, a lingering daughter) and a dead one (a last bud
-  // that never separates, granules taken for buds; kept at its starting value, see
-  // EmissionStatistics::estimate).
-  double budRatioUnbuddedMean = 0.05, budRatioUnbuddedSigma = 0.1;
+  // Bud ratio where no bud grows: an unbudded mother (near zero, lingering daughters
+  // aside) and a dead one (a last bud that never separates, granules taken for buds;
+  // kept at its starting value, see EmissionStatistics::estimate).
+  double budRatioUnbuddedMean = 0.02, budRatioUnbuddedSigma = 0.05;
   double budRatioDeadMean = 0.15, budRatioDeadSigma = 0.2;
-  // A mother with no bud found reads a ratio of exactly 0, which is evidence of its own:
-  // the Gaussians describe the readings that are not 0, and these are the chances of a
-  // 0 reading. Read as one Gaussian near 0, a small ratio said "unbudded" (most unbudded
-  // readings are 0) and buds were placed late. Starting values, learned but for a
-  // corpse's: an unbudded mother seldom shows a piece taken for a bud, the frame after a
-  // separation more often; a bud in its first frame is missed often, later seldom; a
-  // corpse may or may not carry its last bud (an even chance, like the dead ratio's
-  // Gaussian not learned).
-  double budAbsentUnbudded = 0.9;
-  double budAbsentSeparated = 0.8;
-  std::vector<double> budAbsentByAge;  // bud ages 1..m
-  double budAbsentDead = 0.5;
   double budRatioRange = 1.5;  // uniform density for the outlier component
   // Departed area: large in the frame just after a separation, small otherwise.
   double departSeparatedMean = 0.3, departSeparatedSigma = 0.2;
@@ -122,8 +109,6 @@ class EmissionStatistics {
   std::array<std::array<double, 2>, kStateGroupCount> dead_{};
   std::vector<double> ratioW_, ratioSum_, ratioSq_;
   double unbuddedW_ = 0, unbuddedSum_ = 0, unbuddedSq_ = 0;
-  // 0 readings and all readings: per bud age, then unbudded, then just separated.
-  std::vector<double> absentW_, readW_;
   std::array<double, 2> departW_{}, departSum_{}, departSq_{};  // just separated, other
   std::array<double, kMorphCount> liveW_{}, liveSq_{};
   std::vector<std::array<double, kMorphCount>> deadW_, deadSum_, deadSq_;

@@ -53,52 +53,5 @@ TEST(Emission, DeviationTheOtherWayIsNoSignOfDeath) {
   EXPECT_LE(dead2, live2 + 1e-9);
 }
 
-// A mother with no bud found reads a bud ratio of exactly 0; one with a bud in its first
-// frame often reads a small one. Read as one Gaussian around a small mean, a small
-// ratio said "unbudded" (most unbudded readings are 0, so the mean sits near it) and
-// buds were placed late; as a chance of 0 plus a Gaussian for the rest, a small ratio
-// is evidence of a bud and a 0 of none.
-TEST(Emission, SmallBudReadingIsABudAndNoReadingIsNone) {
-  const CycleModel model{CycleParams{}};
-  const auto params = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
-  auto score = [&](double ratio) {
-    FrameEvidence f;  // the classifier undecided
-    f.budRatio = ratio;
-    return emissionLogLikelihood(model, params, {f});
-  };
-  const auto small = score(0.03), none = score(0.0);
-  const auto u = static_cast<std::size_t>(model.unbuddedState());
-  const auto b1 = static_cast<std::size_t>(model.buddedState(1));
-  const auto bm = static_cast<std::size_t>(model.buddedState(model.buddedFrames()));
-  EXPECT_GT(small[b1], small[u] + 1);
-  EXPECT_GT(none[u], none[b1] + 0.5);
-  EXPECT_GT(none[u], none[bm] + 2);
-}
-
-// How often no bud is found is learned per state from the posteriors: nearly always for
-// an unbudded mother, nearly never for a grown bud.
-TEST(Emission, ShareOfReadingsWithoutABudIsLearnedPerState) {
-  const CycleModel model{CycleParams{}};
-  const auto prior = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
-  const int S = model.stateCount();
-  TrapEvidence ev;
-  std::vector<double> posterior;
-  for (int t = 0; t < 2000; ++t) {
-    const bool unbudded = t % 2 == 0;
-    FrameEvidence f;
-    f.budRatio = unbudded ? (t % 40 == 0 ? 0.05 : 0.0) : (t % 200 == 1 ? 0.0 : 0.3);
-    ev.push_back(f);
-    std::vector<double> row(static_cast<std::size_t>(S), 0.0);
-    row[static_cast<std::size_t>(unbudded ? model.unbuddedState()
-                                          : model.buddedState(model.buddedFrames()))] = 1;
-    posterior.insert(posterior.end(), row.begin(), row.end());
-  }
-  EmissionStatistics stats(model.buddedFrames(), model.deadFrames());
-  stats.add(model, prior, ev, posterior);
-  const auto p = stats.estimate(prior, 10);
-  EXPECT_NEAR(p.budAbsentUnbudded, 0.95, 0.01);
-  EXPECT_NEAR(p.budAbsentByAge.back(), 0.01, 0.01);
-}
-
 }  // namespace
 }  // namespace budledger::propose
