@@ -37,6 +37,19 @@ FeatureContext context() {
   return c;
 }
 
+// Paints a disk into a kept mask (over what is there) and returns its cell, with its
+// outline gap to the mother as the segmentation would have measured it.
+Cell paintCell(CropReading& r, double x, double y, double radius, int label, double gap = 0) {
+  cv::circle(r.mask, {static_cast<int>(x), static_cast<int>(y)}, static_cast<int>(radius),
+             cv::Scalar(label), cv::FILLED);
+  Cell c;
+  c.x = x;
+  c.y = y;
+  c.areaPx = cv::countNonZero(r.mask == label);
+  c.gapToMotherPx = gap;
+  return c;
+}
+
 TEST(Features, BudAttachedAndDaughterApart) {
   Scene withBud;
   withBud.cells = {{32, 30, 8, 8}, {32, 18.5, 4.5, 4.5}};
@@ -198,20 +211,9 @@ TEST(Features, LodgedNeighbourReadApartOrMissedForAFrameStaysLodged) {
 TEST(Features, SeamAgainstAPressedNeighbourIsNoBud) {
   CropReading r;
   r.mask = cv::Mat::zeros(64, 64, CV_16U);
-  auto cell = [&](double x, double y, double radius, int label) {
-    cv::circle(r.mask, {static_cast<int>(x), static_cast<int>(y)}, static_cast<int>(radius),
-               cv::Scalar(label), cv::FILLED);
-    Cell c;
-    c.x = x;
-    c.y = y;
-    c.areaPx = cv::countNonZero(r.mask == label);
-    c.gapToMotherPx = 0;
-    return c;
-  };
   // Painted in order, each over the one before: mother, daughter, seam, bud.
-  Cell m = cell(32, 26, 8, 1), daughter = cell(32, 40.5, 6, 2), seam = cell(32, 34.5, 2, 3),
-       bud = cell(22, 20, 3, 4);
-  daughter.gapToMotherPx = 0.5;
+  Cell m = paintCell(r, 32, 26, 8, 1), daughter = paintCell(r, 32, 40.5, 6, 2, 0.5),
+       seam = paintCell(r, 32, 34.5, 2, 3), bud = paintCell(r, 22, 20, 3, 4);
   r.cells = {m, daughter, seam, bud};
   r.mother = 0;
   ASSERT_EQ(attachedCells(r, context()).size(), 3u);
@@ -230,18 +232,8 @@ TEST(Features, SeamAgainstAPressedNeighbourIsNoBud) {
 TEST(Features, PieceBetweenTheMotherAndALeavingDaughterIsNoBud) {
   CropReading r;
   r.mask = cv::Mat::zeros(64, 64, CV_16U);
-  auto cell = [&](double x, double y, double radius, int label, double gap) {
-    cv::circle(r.mask, {static_cast<int>(x), static_cast<int>(y)}, static_cast<int>(radius),
-               cv::Scalar(label), cv::FILLED);
-    Cell c;
-    c.x = x;
-    c.y = y;
-    c.areaPx = cv::countNonZero(r.mask == label);
-    c.gapToMotherPx = gap;
-    return c;
-  };
-  Cell m = cell(32, 24, 8, 1, 0), daughter = cell(32, 43, 6, 2, 5),
-       piece = cell(32, 34, 2.5, 3, 0), bud = cell(22, 18, 2.5, 4, 0);
+  Cell m = paintCell(r, 32, 24, 8, 1), daughter = paintCell(r, 32, 43, 6, 2, 5),
+       piece = paintCell(r, 32, 34, 2.5, 3), bud = paintCell(r, 22, 18, 2.5, 4);
   r.cells = {m, daughter, piece, bud};
   r.mother = 0;
   ASSERT_EQ(attachedCells(r, context()).size(), 2u);  // the piece and the bud
