@@ -225,7 +225,7 @@ TEST(Features, SeamAgainstAPressedNeighbourIsNoBud) {
 }
 
 // A daughter leaving through the outlet gap is read in two: her part still between the
-// posts touches the mother and looked like a bud of a tenth of her size, so the bud
+// posts touches the mother and looked like a bud a tenth of the mother's size, so the bud
 // ratio hardly fell at the separation (fresh simulated seeds). A small attached piece
 // touching a daughter-sized cell already apart from the mother is a seam; a small bud
 // elsewhere on her is not.
