@@ -142,6 +142,38 @@ void placeBudsAtPosteriorMode(const std::vector<double>& budPosterior,
   }
 }
 
+// A bud's first readings are small, and the bud ratio of an unbudded mother is narrow
+// at 0 (most of her readings are exactly 0: no bud found), so a first reading of a few
+// percent of her area counts as "unbudded" in the model and the bud is called a frame
+// or two after it was first read (a third of buds a frame late on fresh seeds; two
+// frames late was the largest source of review edits). A bud found in the frames just
+// before the call is that bud: each bud moves back over the frames, up to kBudReach,
+// that read a bud of any size, never before the event before it. Counts do not change.
+// Its confidence stays: the posterior, which holds the same view of small readings, is
+// lower at the earlier frame though the calls there are right more often (letting it
+// follow the bud doubled the calibration error on fresh seeds). (Reading a 0 as its own
+// outcome in the model itself placed buds as well but took the same small readings
+// from separations: RLS exact -1.6 points on fresh seeds, docs/validation.md.)
+void extendBudsBackOverReadBuds(const TrapEvidence& evidence, std::vector<Event>& events) {
+  for (std::size_t i = 0; i < events.size(); ++i) {
+    Event& ev = events[i];
+    if (ev.kind != EventKind::Bud) continue;
+    int lo = 1;
+    for (std::size_t j = i; j-- > 0;)
+      if (events[j].kind != EventKind::Bud) {
+        lo = events[j].frame + 1;
+        break;
+      }
+    int f = ev.frame;
+    while (f - 1 >= std::max(lo, ev.frame - kBudReach)) {
+      const FrameEvidence& e = evidence[static_cast<std::size_t>(f - 1)];
+      if (!e.informative || !(e.budRatio > 0)) break;
+      --f;
+    }
+    ev.frame = f;
+  }
+}
+
 // A death the decoded path calls but the calibrated posterior does not back: less than
 // this expected number of deaths within kDeathSupportMin of it, and the mother not yet
 // likely dead in that time after it (a true death called late is dead already by the
@@ -329,6 +361,7 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
     }
   }
   placeBudsAtPosteriorMode(expected[static_cast<std::size_t>(EventKind::Bud)], out.events);
+  extendBudsBackOverReadBuds(evidence, out.events);
   return out;
 }
 
