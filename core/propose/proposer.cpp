@@ -104,6 +104,14 @@ int argmax4(const std::array<double, 4>& q) {
 // How far a bud may move from where the decoded path put it (frames).
 constexpr int kBudReach = 2;
 
+// The frame of the last event before events[i] that is not a bud (0 if none): a bud
+// moved earlier may not pass it.
+int frameOfEventBefore(const std::vector<Event>& events, std::size_t i) {
+  for (std::size_t j = i; j-- > 0;)
+    if (events[j].kind != EventKind::Bud) return events[j].frame;
+  return 0;
+}
+
 // The path is the likeliest sequence as a whole; the frame a bud is likeliest to have
 // emerged at, given all the evidence, is the mode of its own posterior, and the two
 // differ where a bud's first, smallest frames are read uncertainly (the path waited
@@ -117,12 +125,9 @@ void placeBudsAtPosteriorMode(const std::vector<double>& budPosterior,
   for (std::size_t i = 0; i < events.size(); ++i) {
     Event& ev = events[i];
     if (ev.kind != EventKind::Bud) continue;
-    int lo = std::max(1, ev.frame - kBudReach), hi = std::min(T - 1, ev.frame + kBudReach);
-    for (std::size_t j = i; j-- > 0;)
-      if (events[j].kind != EventKind::Bud) {
-        lo = std::max(lo, events[j].frame);
-        break;
-      }
+    // A separation in the same frame as the bud may stay there.
+    const int lo = std::max({1, ev.frame - kBudReach, frameOfEventBefore(events, i)});
+    int hi = std::min(T - 1, ev.frame + kBudReach);
     for (std::size_t j = i + 1; j < events.size(); ++j)
       if (events[j].kind != EventKind::Bud) {
         hi = std::min(hi, events[j].frame - 1);
@@ -158,20 +163,28 @@ void extendBudsBackOverReadBuds(const TrapEvidence& evidence, std::vector<Event>
   for (std::size_t i = 0; i < events.size(); ++i) {
     Event& ev = events[i];
     if (ev.kind != EventKind::Bud) continue;
-    int lo = 1;
-    for (std::size_t j = i; j-- > 0;)
-      if (events[j].kind != EventKind::Bud) {
-        lo = events[j].frame + 1;
-        break;
-      }
+    const int lo = std::max(frameOfEventBefore(events, i) + 1, ev.frame - kBudReach);
     int f = ev.frame;
-    while (f - 1 >= std::max(lo, ev.frame - kBudReach)) {
+    while (f - 1 >= lo) {
       const FrameEvidence& e = evidence[static_cast<std::size_t>(f - 1)];
       if (!e.informative || !(e.budRatio > 0)) break;
       --f;
     }
     ev.frame = f;
   }
+}
+
+// Forbids the states `forbidden(s)` says over frames [from, to) of a [frames x states]
+// log-likelihood table, so that a re-decoded path cannot use them there.
+template <typename Pred>
+void forbidStates(const CycleModel& model, std::vector<double>& emission, int from, int to,
+                  Pred forbidden) {
+  const auto S = static_cast<std::size_t>(model.stateCount());
+  for (int t = from; t < to; ++t)
+    for (int s = 0; s < model.stateCount(); ++s)
+      if (forbidden(s))
+        emission[static_cast<std::size_t>(t) * S + static_cast<std::size_t>(s)] =
+            -std::numeric_limits<double>::infinity();
 }
 
 // A death the decoded path calls but the calibrated posterior does not back: less than
@@ -193,7 +206,6 @@ constexpr double kDeathSupportMin = 120;
 void rejectUnsupportedDeaths(const CycleModel& model, const std::vector<double>& deaths,
                              const std::vector<float>& pDead, std::vector<double>& emission,
                              int T, std::vector<int>& path) {
-  const int S = model.stateCount();
   const int reach = std::max(
       1, static_cast<int>(std::lround(kDeathSupportMin / model.params().intervalMin)));
   constexpr int kMaxRounds = 4;
@@ -213,11 +225,7 @@ void rejectUnsupportedDeaths(const CycleModel& model, const std::vector<double>&
     if (from < 0) return;
     int to = from;
     while (to < T && model.isDead(path[static_cast<std::size_t>(to)])) ++to;
-    for (int t = from; t < to; ++t)
-      for (int k = 1; k <= model.deadFrames(); ++k)
-        emission[static_cast<std::size_t>(t) * static_cast<std::size_t>(S) +
-                 static_cast<std::size_t>(model.deadState(k))] =
-            -std::numeric_limits<double>::infinity();
+    forbidStates(model, emission, from, to, [&](int s) { return model.isDead(s); });
     path = model.hmm().viterbi(emission, T);
   }
 }
@@ -238,7 +246,6 @@ constexpr int kFlickerGap = 2;
 // state but the dead ones is forbidden over it and the trap decoded again.
 void mergeCorpseFlickers(const CycleModel& model, const std::vector<float>& pDead,
                          std::vector<double>& emission, int T, std::vector<int>& path) {
-  const int S = model.stateCount();
   auto state = [&](int t) { return path[static_cast<std::size_t>(t)]; };
   constexpr int kMaxRounds = 8;
   for (int round = 0; round < kMaxRounds; ++round) {
@@ -255,11 +262,7 @@ void mergeCorpseFlickers(const CycleModel& model, const std::vector<float>& pDea
         divided = divided || (end > arrival && (model.budAge(state(end)) == 1 ||
                                                 model.justSeparated(state(end))));
       if (divided || end >= T || !model.isDead(state(end))) continue;
-      for (int u = t; u < end; ++u)
-        for (int s = 0; s < S; ++s)
-          if (!model.isDead(s))
-            emission[static_cast<std::size_t>(u) * static_cast<std::size_t>(S) +
-                     static_cast<std::size_t>(s)] = -std::numeric_limits<double>::infinity();
+      forbidStates(model, emission, t, end, [&](int s) { return !model.isDead(s); });
       changed = true;
       t = end;
     }
