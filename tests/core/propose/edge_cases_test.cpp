@@ -205,6 +205,31 @@ TEST(EdgeCases, LingeringDaughterIsNotASecondDivision) {
   EXPECT_EQ(o.count(EventKind::Bud), 6);
 }
 
+// A crowd around the mother hides two of her cycles: every other frame is read
+// crowded, the rest read a bud of middling size that never seems to grow or go (a
+// daughter pressed against her, the next bud behind her). Read with its full
+// likelihood, one long budded stretch explains them best; the tempered posterior,
+// weighing a stretch twice as long as the mother's cycles around it, expects a
+// separation inside, and one is called there.
+TEST(EdgeCases, StretchTwiceTheMothersCycleHoldsASeparation) {
+  Script s;
+  s.cycles(6);
+  const int from = static_cast<int>(s.ev.size());
+  const double ratios[] = {0.36, 0.41, 0.29, 0.31, 0.31, 0.39, 0.29, 0.38,
+                           0.42, 0.35, 0.41, 0.37, 0.30, 0.40, 0.34, 0.39};
+  for (std::size_t i = 0; i < std::size(ratios); ++i) s.add(i % 2 ? crowded() : budded(ratios[i]));
+  const int to = static_cast<int>(s.ev.size());
+  s.cycles(6);
+  s.add(single(), 3);
+  const auto o = decode(s.ev);
+  ASSERT_EQ(o.lineage.tenures.size(), 1u);
+  EXPECT_EQ(o.lineage.tenures[0].divisions, 14);
+  int inside = 0;
+  for (const auto& e : o.calls.events)
+    inside += e.kind == EventKind::Separation && e.frame > from + 2 && e.frame < to - 2;
+  EXPECT_EQ(inside, 1);
+}
+
 TEST(EdgeCases, DepartureTimesASeparationTheBudSizeCannot) {
   // A neighbour hides the bud's growth (bud size unknown), but the daughter's departure
   // is seen in the frame after each separation.

@@ -111,10 +111,11 @@ TEST(Generative, ScalesWithTheFrameInterval) {
   expectNearOracle(s, oracleScore(x, truth));
 }
 
-// Tempering the confidences changes how sure the calls are, never the decoded path:
-// separations, arrivals and washouts stay as they are. Buds move to their posterior's
-// mode within two frames, and deaths the posterior does not back are dropped, both
-// read from the tempered posterior, so those two may differ (proposer.cpp).
+// Tempering the confidences changes how sure the calls are, and nothing the decoded
+// path calls: arrivals, washouts and its separations stay as they are. Read from the
+// tempered posterior are: buds moved to their posterior's mode within two frames,
+// deaths the posterior does not back, dropped, and separations added in stretches far
+// longer than the mother's cycles around them (proposer.cpp), each with its new bud.
 TEST(Generative, TemperedConfidencesKeepTheCalls) {
   const Experiment x = sampleExperiment(CycleParams{}, 12, 160, 9031);
   ProposeOptions exact, tempered;
@@ -130,19 +131,26 @@ TEST(Generative, TemperedConfidencesKeepTheCalls) {
     return out;
   };
   double sureA = 0, sureB = 0;
+  int added = 0;
   for (std::size_t i = 0; i < a.traps.size(); ++i) {
     const auto ea = only(a.traps[i].events, false), eb = only(b.traps[i].events, false);
-    ASSERT_EQ(ea.size(), eb.size());
-    for (std::size_t k = 0; k < ea.size(); ++k) {
-      EXPECT_EQ(ea[k].frame, eb[k].frame);
-      EXPECT_EQ(ea[k].kind, eb[k].kind);
-      sureA += ea[k].confidence;
-      sureB += eb[k].confidence;
+    std::size_t k = 0;
+    for (const auto& e : eb) {
+      if (k < ea.size() && ea[k].frame == e.frame && ea[k].kind == e.kind) {
+        sureA += ea[k].confidence;
+        sureB += e.confidence;
+        ++k;
+      } else {
+        EXPECT_EQ(e.kind, EventKind::Separation) << "trap " << i << " frame " << e.frame;
+        ++added;
+      }
     }
+    EXPECT_EQ(k, ea.size()) << "trap " << i << ": an exact call is missing when tempered";
     const auto ba = only(a.traps[i].events, true), bb = only(b.traps[i].events, true);
-    ASSERT_EQ(ba.size(), bb.size());
-    for (std::size_t k = 0; k < ba.size(); ++k) EXPECT_LE(std::abs(ba[k].frame - bb[k].frame), 2);
+    if (ba.size() != bb.size()) continue;  // a separation added with its bud
+    for (std::size_t j = 0; j < ba.size(); ++j) EXPECT_LE(std::abs(ba[j].frame - bb[j].frame), 2);
   }
+  EXPECT_LE(added, 2);
   EXPECT_LT(sureB, sureA);  // less sure on the whole
 }
 
