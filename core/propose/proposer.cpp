@@ -119,8 +119,7 @@ int frameOfEventBefore(const std::vector<Event>& events, std::size_t i) {
 // source of review edits). Each bud moves to the frame of highest posterior bud
 // probability within kBudReach of its call, never past the events on either side of it
 // (a separation in the same frame may stay); its confidence follows it.
-void placeBudsAtPosteriorMode(const std::vector<double>& budPosterior,
-                              std::vector<Event>& events) {
+void placeBudsAtPosteriorMode(const std::vector<double>& budPosterior, std::vector<Event>& events) {
   const int T = static_cast<int>(budPosterior.size());
   for (std::size_t i = 0; i < events.size(); ++i) {
     Event& ev = events[i];
@@ -204,10 +203,10 @@ constexpr double kDeathSupportMin = 120;
 // `deaths`: expected deaths entering each frame, `pDead`: P(dead) per frame, both from
 // the tempered posterior.
 void rejectUnsupportedDeaths(const CycleModel& model, const std::vector<double>& deaths,
-                             const std::vector<float>& pDead, std::vector<double>& emission,
-                             int T, std::vector<int>& path) {
-  const int reach = std::max(
-      1, static_cast<int>(std::lround(kDeathSupportMin / model.params().intervalMin)));
+                             const std::vector<float>& pDead, std::vector<double>& emission, int T,
+                             std::vector<int>& path) {
+  const int reach =
+      std::max(1, static_cast<int>(std::lround(kDeathSupportMin / model.params().intervalMin)));
   constexpr int kMaxRounds = 4;
   for (int round = 0; round < kMaxRounds; ++round) {
     int from = -1;
@@ -259,8 +258,8 @@ void mergeCorpseFlickers(const CycleModel& model, const std::vector<float>& pDea
       int end = arrival;  // first frame after the live stretch
       bool divided = false;
       for (; end < T && model.isLive(state(end)); ++end)
-        divided = divided || (end > arrival && (model.budAge(state(end)) == 1 ||
-                                                model.justSeparated(state(end))));
+        divided = divided || (end > arrival &&
+                              (model.budAge(state(end)) == 1 || model.justSeparated(state(end))));
       if (divided || end >= T || !model.isDead(state(end))) continue;
       forbidStates(model, emission, t, end, [&](int s) { return !model.isDead(s); });
       changed = true;
@@ -271,6 +270,76 @@ void mergeCorpseFlickers(const CycleModel& model, const std::vector<float>& pDea
   }
 }
 
+// Frames entering a just-separated state in a decoded path, in runs of one living mother.
+std::vector<std::vector<int>> separationRuns(const CycleModel& model,
+                                             const std::vector<int>& path) {
+  std::vector<std::vector<int>> runs(1);
+  for (std::size_t t = 1; t < path.size(); ++t) {
+    if (!model.isLive(path[t])) {
+      if (!runs.back().empty()) runs.emplace_back();
+    } else if (model.justSeparated(path[t])) {
+      runs.back().push_back(static_cast<int>(t));
+    }
+  }
+  return runs;
+}
+
+std::size_t separationCount(const CycleModel& model, const std::vector<int>& path) {
+  std::size_t n = 0;
+  for (const auto& run : separationRuns(model, path)) n += run.size();
+  return n;
+}
+
+// The mother's usual cycle near intervals [skipFrom, skipTo] of her separation frames
+// `seps` (interval i runs from seps[i] to seps[i + 1]): the median of up to three
+// intervals on either side, those skipped left out; 0 with fewer than two to go by.
+int localCycle(const std::vector<int>& seps, std::size_t skipFrom, std::size_t skipTo) {
+  constexpr std::size_t kNeighbours = 3;
+  std::vector<int> around;
+  const std::size_t first = skipFrom >= kNeighbours ? skipFrom - kNeighbours : 0;
+  for (std::size_t j = first; j + 1 < seps.size() && j <= skipTo + kNeighbours; ++j)
+    if (j < skipFrom || j > skipTo) around.push_back(seps[j + 1] - seps[j]);
+  if (around.size() < 2) return 0;
+  const auto mid = around.begin() + static_cast<std::ptrdiff_t>(around.size() / 2);
+  std::nth_element(around.begin(), mid, around.end());
+  return *mid;
+}
+
+// Decodes again with the states `forbidden(s)` forbidden over frames [from, to) and
+// keeps the new path if it holds `change` separations more than the old one; else the
+// old path and emission table stay. True if the new path was kept.
+template <typename Pred>
+bool redecodeIfCountChanges(const CycleModel& model, std::vector<double>& emission, int T,
+                            std::vector<int>& path, int from, int to, Pred forbidden, int change) {
+  const auto S = static_cast<std::size_t>(model.stateCount());
+  const auto first =
+      emission.begin() + static_cast<std::ptrdiff_t>(static_cast<std::size_t>(from) * S);
+  const auto last =
+      emission.begin() + static_cast<std::ptrdiff_t>(static_cast<std::size_t>(to) * S);
+  const std::vector<double> kept(first, last);
+  forbidStates(model, emission, from, to, forbidden);
+  std::vector<int> again = model.hmm().viterbi(emission, T);
+  const auto before = static_cast<long>(separationCount(model, path));
+  if (static_cast<long>(separationCount(model, again)) - before == change) {
+    path = std::move(again);
+    return true;
+  }
+  std::copy(kept.begin(), kept.end(), first);
+  return false;
+}
+
+// Expected separations (tempered posterior) entering frames u-1..u+1.
+double expectedAround(const std::vector<double>& separations, int u) {
+  double e = 0;
+  for (int v = std::max(0, u - 1); v <= std::min(static_cast<int>(separations.size()) - 1, u + 1);
+       ++v)
+    e += separations[static_cast<std::size_t>(v)];
+  return e;
+}
+
+// How many rounds of forcing or forbidding a separation a trap gets.
+constexpr int kCountRounds = 8;
+
 // A daughter who separates but stays pressed against the mother reads as a full-grown
 // bud until the next bud shows, and a crowd can hide a bud's growth: the path, reading
 // the full likelihood, then makes one long cycle of two, the commonest miscount on
@@ -278,91 +347,88 @@ void mergeCorpseFlickers(const CycleModel& model, const std::vector<float>& pDea
 // readings open and expects a separation inside such a stretch (of the stretches 1.5
 // times as long as the cycles around them with 0.3 or more expected within three
 // frames, 60 of 72 held a true separation on 10 fresh seeds, docs/validation.md).
-// Where the path's interval between two separations is kLongCycle times the median of
-// up to kNeighbours of the mother's intervals on either side, and the posterior expects
-// kHiddenSeparation or more within three frames around a frame of it that leaves room
-// for a whole budded phase on both sides, the path is made to separate at the likeliest
-// such frame and decoded again. The budded phase before it must have been in view: a
-// gap in the evidence (defocus) is room for any number of cycles the prior likes. The new path must hold one separation
-// more: where it only moved one (the posterior hedging over when a separation next to
-// a gap in the evidence happened), the old path stays.
+// Where the path's interval between two separations is kLongCycle times the mother's
+// usual cycle near it, and the posterior expects kHiddenSeparation or more within
+// three frames around a frame of it that leaves room for a whole budded phase on both
+// sides, the path is made to separate at the likeliest such frame and decoded again.
+// The budded phase before it must have been in view: a gap in the evidence (defocus)
+// is room for any number of cycles the prior likes. The new path must hold one
+// separation more: where it only moved one (the posterior hedging over when a
+// separation next to such a gap happened), the old path stays.
 void splitLongCycles(const CycleModel& model, const TrapEvidence& evidence,
-                     const std::vector<double>& separations, std::vector<double>& emission,
-                     int T, std::vector<int>& path) {
+                     const std::vector<double>& separations, std::vector<double>& emission, int T,
+                     std::vector<int>& path) {
   constexpr double kLongCycle = 1.5;
   constexpr double kHiddenSeparation = 0.3;
-  constexpr int kNeighbours = 3;
-  constexpr int kMaxRounds = 8;
   const int minBudded = model.buddedFrames();
-  const auto S = static_cast<std::size_t>(model.stateCount());
-  // Frames entering a just-separated state, in runs of one living mother.
-  auto separationRuns = [&] {
-    std::vector<std::vector<int>> runs(1);
-    for (int t = 1; t < T; ++t) {
-      const int s = path[static_cast<std::size_t>(t)];
-      if (!model.isLive(s)) {
-        if (!runs.back().empty()) runs.emplace_back();
-      } else if (model.justSeparated(s)) {
-        runs.back().push_back(t);
-      }
-    }
-    return runs;
-  };
-  auto countOf = [](const std::vector<std::vector<int>>& runs) {
-    std::size_t n = 0;
-    for (const auto& r : runs) n += r.size();
-    return n;
-  };
-  std::vector<bool> tried(static_cast<std::size_t>(T), false);
-  auto expectedAround = [&](int u) {
-    return separations[static_cast<std::size_t>(u - 1)] + separations[static_cast<std::size_t>(u)] +
-           separations[static_cast<std::size_t>(u + 1)];
-  };
   auto inView = [&](int from, int to) {
     for (int t = std::max(0, from); t <= std::min(T - 1, to); ++t)
       if (!evidence[static_cast<std::size_t>(t)].informative) return false;
     return true;
   };
-  // The frame to force a separation at in the interval (a, b), or -1.
+  std::vector<bool> tried(static_cast<std::size_t>(T), false);
+  // The frame to force a separation at between separations a and b, or -1.
   auto hiddenSeparation = [&](int a, int b) {
     int force = -1;
     double best = kHiddenSeparation;
     for (int u = a + minBudded + 1; u + minBudded + 1 <= b; ++u) {
       if (tried[static_cast<std::size_t>(u)] || !inView(u - minBudded - 1, u + 1)) continue;
-      if (const double e = expectedAround(u); e >= best) {
+      if (const double e = expectedAround(separations, u); e >= best) {
         best = e;
         force = u;
       }
     }
     return force;
   };
-  for (int round = 0; round < kMaxRounds; ++round) {
-    const auto runs = separationRuns();
+  for (int round = 0; round < kCountRounds; ++round) {
     int force = -1;
-    for (const auto& seps : runs) {
+    for (const auto& seps : separationRuns(model, path)) {
       for (std::size_t i = 0; i + 1 < seps.size() && force < 0; ++i) {
-        std::vector<int> around;
-        const std::size_t first = i >= kNeighbours ? i - kNeighbours : 0;
-        for (std::size_t j = first; j + 1 < seps.size() && j <= i + kNeighbours; ++j)
-          if (j != i) around.push_back(seps[j + 1] - seps[j]);
-        if (around.size() < 2) continue;
-        const auto mid = around.begin() + static_cast<std::ptrdiff_t>(around.size() / 2);
-        std::nth_element(around.begin(), mid, around.end());
-        if (seps[i + 1] - seps[i] >= kLongCycle * *mid) force = hiddenSeparation(seps[i], seps[i + 1]);
+        const int usual = localCycle(seps, i, i);
+        if (usual > 0 && seps[i + 1] - seps[i] >= kLongCycle * usual)
+          force = hiddenSeparation(seps[i], seps[i + 1]);
       }
       if (force >= 0) break;
     }
     if (force < 0) return;
     tried[static_cast<std::size_t>(force)] = true;
-    const auto row = emission.begin() + static_cast<std::ptrdiff_t>(static_cast<std::size_t>(force) * S);
-    const std::vector<double> kept(row, row + static_cast<std::ptrdiff_t>(S));
-    forbidStates(model, emission, force, force + 1, [&](int s) { return !model.justSeparated(s); });
-    std::vector<int> split = model.hmm().viterbi(emission, T);
-    std::swap(split, path);
-    if (countOf(separationRuns()) <= countOf(runs)) {
-      std::swap(split, path);  // only moved a separation: keep the old path
-      std::copy(kept.begin(), kept.end(), row);
+    redecodeIfCountChanges(
+        model, emission, T, path, force, force + 1, [&](int s) { return !model.justSeparated(s); },
+        +1);
+  }
+}
+
+// The other way round: a frame the outline reads oddly (a bud cut in two, a neighbour
+// passing) can make the full-likelihood path separate in the middle of a cycle, and two
+// short cycles stand for one. Where a separation leaves a cycle on either side of it
+// shorter than kShortCycle times the mother's usual cycle near them, and the tempered
+// posterior expects fewer than kUnbackedSeparation separations within three frames of
+// it, the separation states are forbidden there and the trap decoded again; the new
+// path must hold one separation fewer (not the same one moved).
+void mergeShortCycles(const CycleModel& model, const std::vector<double>& separations,
+                      std::vector<double>& emission, int T, std::vector<int>& path) {
+  constexpr double kShortCycle = 0.6;
+  constexpr double kUnbackedSeparation = 0.3;
+  std::vector<bool> tried(static_cast<std::size_t>(T), false);
+  for (int round = 0; round < kCountRounds; ++round) {
+    int drop = -1;
+    for (const auto& seps : separationRuns(model, path)) {
+      for (std::size_t i = 1; i + 1 < seps.size() && drop < 0; ++i) {
+        const int f = seps[i];
+        if (tried[static_cast<std::size_t>(f)] ||
+            expectedAround(separations, f) >= kUnbackedSeparation)
+          continue;
+        const int usual = localCycle(seps, i - 1, i);
+        const int shorter = std::min(f - seps[i - 1], seps[i + 1] - f);
+        if (usual > 0 && shorter < kShortCycle * usual) drop = f;
+      }
+      if (drop >= 0) break;
     }
+    if (drop < 0) return;
+    tried[static_cast<std::size_t>(drop)] = true;
+    redecodeIfCountChanges(
+        model, emission, T, path, std::max(0, drop - 1), std::min(T, drop + 2),
+        [&](int s) { return model.justSeparated(s); }, -1);
   }
 }
 
@@ -440,6 +506,8 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
   mergeCorpseFlickers(model, out.pDead, em, T, out.path);
   splitLongCycles(model, evidence, expected[static_cast<std::size_t>(EventKind::Separation)], em, T,
                   out.path);
+  mergeShortCycles(model, expected[static_cast<std::size_t>(EventKind::Separation)], em, T,
+                   out.path);
   for (int t = 1; t < T; ++t) {
     const int from = out.path[static_cast<std::size_t>(t - 1)];
     const int to = out.path[static_cast<std::size_t>(t)];

@@ -230,6 +230,31 @@ TEST(EdgeCases, StretchTwiceTheMothersCycleHoldsASeparation) {
   EXPECT_EQ(inside, 1);
 }
 
+// A bud hidden for three frames in the middle of a cycle (the mother read alone) comes
+// back at the size she had for her last frame. Read with its full likelihood, the path
+// takes the hidden frames for a separation and her return for a new bud, two short
+// cycles for one; the tempered posterior, for which a new bud would come back small,
+// does not back that separation, and it is not called. (Decoded under the default
+// model: the cycle this trap alone would teach it leaves the path unsure here.)
+TEST(EdgeCases, BudHiddenForAFewFramesIsNoSeparation) {
+  Script s;
+  s.cycles(6, 1, 8);
+  s.add(single());
+  for (double ratio : {0.06, 0.12, 0.19, 0.25}) s.add(budded(ratio));
+  s.add(single(), 3);
+  s.add(budded(0.3));
+  s.separations.push_back(static_cast<int>(s.ev.size()));
+  s.cycles(6, 1, 8);
+  s.add(single(), 3);
+  const CycleModel model(CycleParams{});
+  const auto emission = EmissionParams::defaults(model.buddedFrames(), model.deadFrames());
+  const TrapCalls calls = decodeTrap(0, 1, model, emission, s.ev, ReviewRules{}, nullptr,
+                                     ProposeOptions{}.confidenceTemper);
+  const auto lineage = lineage::tenuresFromEvents(calls.events, static_cast<int>(s.ev.size()));
+  ASSERT_EQ(lineage.tenures.size(), 1u);
+  EXPECT_EQ(lineage.tenures[0].divisions, 13);
+}
+
 TEST(EdgeCases, DepartureTimesASeparationTheBudSizeCannot) {
   // A neighbour hides the bud's growth (bud size unknown), but the daughter's departure
   // is seen in the frame after each separation.
