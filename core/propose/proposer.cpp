@@ -186,6 +186,49 @@ void forbidStates(const CycleModel& model, std::vector<double>& emission, int fr
             -std::numeric_limits<double>::infinity();
 }
 
+// Frames that show nothing (defocus, a failed registration) cannot show a mother leave,
+// die or arrive. Through a long run of them the path still took her away and brought a
+// "newcomer" back (a 40-frame gap split a steady mother's record at a washout and an
+// arrival): with no evidence the likeliest single path is the one through states that
+// stay put longest, an empty or dead trap, not a living mother's cycles. Where the path
+// changes between a live mother, a dead one and an empty trap inside such a run, that
+// run keeps what the trap held before it and the trap is decoded again; a change that
+// is real then shows at the first frame with evidence. Only runs of kLongGapMin or
+// more: in a short one the path's choice is as good as any, and holding it there moved
+// true deaths and washouts on simulated sweeps (RLS MAE +0.01..+0.03 when every gap was
+// held).
+constexpr double kLongGapMin = 120;
+
+void holdTenuresThroughGaps(const CycleModel& model, const TrapEvidence& evidence,
+                            std::vector<double>& emission, int T, std::vector<int>& path) {
+  const int longGap =
+      std::max(2, static_cast<int>(std::lround(kLongGapMin / model.params().intervalMin)));
+  auto holds = [&](int s) { return model.isLive(s) ? 0 : model.isDead(s) ? 1 : 2; };
+  constexpr int kMaxRounds = 4;
+  for (int round = 0; round < kMaxRounds; ++round) {
+    bool changed = false;
+    for (int t = 1; t < T;) {
+      if (evidence[static_cast<std::size_t>(t)].informative) {
+        ++t;
+        continue;
+      }
+      int end = t;
+      while (end < T && !evidence[static_cast<std::size_t>(end)].informative) ++end;
+      const int before = holds(path[static_cast<std::size_t>(t - 1)]);
+      bool moves = false;
+      for (int u = t; u < end; ++u)
+        moves = moves || holds(path[static_cast<std::size_t>(u)]) != before;
+      if (moves && end - t >= longGap) {
+        forbidStates(model, emission, t, end, [&](int s) { return holds(s) != before; });
+        changed = true;
+      }
+      t = end;
+    }
+    if (!changed) return;
+    path = model.hmm().viterbi(emission, T);
+  }
+}
+
 // A death the decoded path calls but the calibrated posterior does not back: less than
 // this expected number of deaths within kDeathSupportMin of it, and the mother not yet
 // likely dead in that time after it (a true death called late is dead already by the
@@ -501,6 +544,7 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
       for (EventKind k : eventsOf(static_cast<Transition>(arcs[a].tag)))
         expected[static_cast<std::size_t>(k)][static_cast<std::size_t>(t)] += p;
     }
+  holdTenuresThroughGaps(model, evidence, em, T, out.path);
   rejectUnsupportedDeaths(model, expected[static_cast<std::size_t>(EventKind::Death)], out.pDead,
                           em, T, out.path);
   mergeCorpseFlickers(model, out.pDead, em, T, out.path);

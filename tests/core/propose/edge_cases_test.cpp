@@ -117,6 +117,25 @@ TEST(EdgeCases, MissedFramesKeepTheMother) {
   expectSeparationsNear(o, s.separations, 1);
 }
 
+// Six hours and more without a usable frame (a long defocus, drift carrying the trap
+// out of view): the mother is still there when the frames show her again, and her
+// record must not end at a washout in the gap and start again at an arrival.
+TEST(EdgeCases, LongGapKeepsTheMother) {
+  for (int gap : {20, 40, 60}) {
+    Script s;
+    s.cycles(8);
+    s.add(single());
+    s.add(blank(), gap);
+    s.cycles(8);
+    s.add(single(), 3);
+    const auto o = decode(s.ev);
+    EXPECT_EQ(o.count(EventKind::Washout), 0) << gap;
+    EXPECT_EQ(o.count(EventKind::Arrival), 0) << gap;
+    EXPECT_EQ(o.count(EventKind::Death), 0) << gap;
+    EXPECT_EQ(o.lineage.tenures.size(), 1u) << gap;
+  }
+}
+
 // The pattern behind split records on simulated stacks: the classifier still sees a
 // mother, but her outline is read wrongly (a third of her area, odd contrast and bud
 // ratio) for two frames. One bad outline must not cost more than a washout and a new
