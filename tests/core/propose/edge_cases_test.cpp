@@ -91,6 +91,14 @@ int budsOnTime(const Outcome1& o, const std::vector<int>& truth) {
   return exact;
 }
 
+// The separations called in frames lo..hi.
+std::vector<Event> separationsIn(const Outcome1& o, int lo, int hi) {
+  std::vector<Event> out;
+  for (const auto& e : o.calls.events)
+    if (e.kind == EventKind::Separation && e.frame >= lo && e.frame <= hi) out.push_back(e);
+  return out;
+}
+
 void expectSeparationsNear(const Outcome1& o, const std::vector<int>& truth, int tol) {
   std::vector<int> got;
   for (const auto& e : o.calls.events)
@@ -177,14 +185,10 @@ TEST(EdgeCases, SeparationHiddenInAGapIsCalledLessSurely) {
   const auto o = decode(s.ev);
   ASSERT_EQ(o.lineage.tenures.size(), 1u);
   EXPECT_EQ(o.lineage.tenures[0].divisions, 7);
-  int hidden = 0;
-  for (const auto& e : o.calls.events)
-    if (e.kind == EventKind::Separation && e.frame >= gapStart && e.frame <= gapEnd) {
-      ++hidden;
-      // Less sure than a separation seen in the open (those get > 0.98).
-      EXPECT_LT(e.confidence, 0.95);
-    }
-  EXPECT_EQ(hidden, 1);
+  const auto hidden = separationsIn(o, gapStart, gapEnd);
+  EXPECT_EQ(hidden.size(), 1u);
+  // Less sure than a separation seen in the open (those get > 0.98).
+  for (const auto& e : hidden) EXPECT_LT(e.confidence, 0.95);
 }
 
 TEST(EdgeCases, RealWashoutAndArrivalAreCalled) {
@@ -243,10 +247,7 @@ TEST(EdgeCases, StretchTwiceTheMothersCycleHoldsASeparation) {
   const auto o = decode(s.ev);
   ASSERT_EQ(o.lineage.tenures.size(), 1u);
   EXPECT_EQ(o.lineage.tenures[0].divisions, 14);
-  int inside = 0;
-  for (const auto& e : o.calls.events)
-    inside += e.kind == EventKind::Separation && e.frame > from + 2 && e.frame < to - 2;
-  EXPECT_EQ(inside, 1);
+  EXPECT_EQ(separationsIn(o, from + 3, to - 3).size(), 1u);
 }
 
 // A bud hidden for three frames in the middle of a cycle (the mother read alone) comes
