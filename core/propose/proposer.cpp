@@ -104,6 +104,16 @@ int argmax4(const std::array<double, 4>& q) {
 // How far a bud may move from where the decoded path put it (frames).
 constexpr int kBudReach = 2;
 
+// Expected events of one kind (tempered posterior, per frame they enter) within a frame
+// of frame u: an event's confidence, and what the cycle-count rules weigh. Nothing
+// enters frame 0.
+double expectedAround(const std::vector<double>& expected, int u) {
+  double e = 0;
+  for (int v = std::max(1, u - 1); v <= std::min(static_cast<int>(expected.size()) - 1, u + 1); ++v)
+    e += expected[static_cast<std::size_t>(v)];
+  return e;
+}
+
 // The frame of the last event before events[i] that is not a bud (0 if none): a bud
 // moved earlier may not pass it.
 int frameOfEventBefore(const std::vector<Event>& events, std::size_t i) {
@@ -139,10 +149,7 @@ void placeBudsAtPosteriorMode(const std::vector<double>& budPosterior, std::vect
         best = u;
     if (best == ev.frame) continue;
     ev.frame = best;
-    double conf = 0;
-    for (int u = std::max(1, best - 1); u <= std::min(T - 1, best + 1); ++u)
-      conf += budPosterior[static_cast<std::size_t>(u)];
-    ev.confidence = std::clamp(conf, 0.0, 1.0);
+    ev.confidence = std::clamp(expectedAround(budPosterior, best), 0.0, 1.0);
   }
 }
 
@@ -350,9 +357,9 @@ int localCycle(const std::vector<int>& seps, std::size_t skipFrom, std::size_t s
 
 // Decodes again with the states `forbidden(s)` forbidden over frames [from, to) and
 // keeps the new path if it holds `change` separations more than the old one; else the
-// old path and emission table stay. True if the new path was kept.
+// old path and emission table stay.
 template <typename Pred>
-bool redecodeIfCountChanges(const CycleModel& model, std::vector<double>& emission, int T,
+void redecodeIfCountChanges(const CycleModel& model, std::vector<double>& emission, int T,
                             std::vector<int>& path, int from, int to, Pred forbidden, int change) {
   const auto S = static_cast<std::size_t>(model.stateCount());
   const auto first =
@@ -365,19 +372,9 @@ bool redecodeIfCountChanges(const CycleModel& model, std::vector<double>& emissi
   const auto before = static_cast<long>(separationCount(model, path));
   if (static_cast<long>(separationCount(model, again)) - before == change) {
     path = std::move(again);
-    return true;
+    return;
   }
   std::copy(kept.begin(), kept.end(), first);
-  return false;
-}
-
-// Expected separations (tempered posterior) entering frames u-1..u+1.
-double expectedAround(const std::vector<double>& separations, int u) {
-  double e = 0;
-  for (int v = std::max(0, u - 1); v <= std::min(static_cast<int>(separations.size()) - 1, u + 1);
-       ++v)
-    e += separations[static_cast<std::size_t>(v)];
-  return e;
 }
 
 // How many rounds of forcing or forbidding a separation a trap gets.
@@ -559,10 +556,7 @@ TrapCalls decodeTrap(int position, int trap, const CycleModel& model,
     const auto it = arcOf.find({from, to});
     if (it == arcOf.end()) continue;
     for (EventKind k : eventsOf(static_cast<Transition>(arcs[it->second].tag))) {
-      const auto& e = expected[static_cast<std::size_t>(k)];
-      double conf = 0;
-      for (int u = std::max(1, t - 1); u <= std::min(T - 1, t + 1); ++u)
-        conf += e[static_cast<std::size_t>(u)];
+      const double conf = expectedAround(expected[static_cast<std::size_t>(k)], t);
       Event ev;
       ev.position = position;
       ev.trap = trap;
