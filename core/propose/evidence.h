@@ -34,6 +34,7 @@ struct FrameEvidence {
 };
 
 inline constexpr int kMorphCount = 3;
+inline constexpr int kMorphLogArea = 2;  // morph[kMorphLogArea]: log of her area in pixels
 
 using TrapEvidence = std::vector<FrameEvidence>;  // one per frame
 

@@ -431,6 +431,42 @@ TEST(EdgeCases, DeathThePosteriorDoesNotBackIsNotCalled) {
   EXPECT_NEAR(o.lineage.tenures[0].divisions, 12, 1);
 }
 
+// A mother who looks dead for two hours (an odd outline, a crowd pressing on her) and
+// is missed for two frames, then buds on: the path called her dead and her return a
+// newcomer's arrival, splitting her record. A "newcomer" no smaller than the mother who
+// died is that mother; a smaller one (here 95% of her area) is a newcomer, and both her
+// predecessor's death and her arrival stand.
+Script lookedDeadAndCameBack(double logAreaAfter) {
+  Script s;
+  s.cycles(6);
+  s.add(single(0.95), 12);
+  s.add(empty(), 2);
+  const int back = static_cast<int>(s.ev.size());
+  s.cycles(6);
+  s.add(single(), 3);
+  for (std::size_t t = 0; t < s.ev.size(); ++t) {
+    if (s.ev[t].occupancy[kEmpty] > 0.5) continue;
+    const double jitter = 0.02 * (static_cast<int>(t % 5) - 2);
+    s.ev[t].morph = {0.0, 0.0, (static_cast<int>(t) < back ? 6.0 : logAreaAfter) + jitter};
+  }
+  return s;
+}
+
+TEST(EdgeCases, MotherBackFromALookOfDeathIsOneRecord) {
+  const auto o = decode(lookedDeadAndCameBack(6.02).ev);
+  EXPECT_EQ(o.count(EventKind::Death), 0);
+  EXPECT_EQ(o.count(EventKind::Arrival), 0);
+  ASSERT_EQ(o.lineage.tenures.size(), 1u);
+  EXPECT_NEAR(o.lineage.tenures[0].divisions, 12, 1);
+}
+
+TEST(EdgeCases, SmallerCellAfterADeathIsANewcomer) {
+  const auto o = decode(lookedDeadAndCameBack(5.95).ev);  // 95% of her area
+  EXPECT_EQ(o.count(EventKind::Death), 1);
+  EXPECT_EQ(o.count(EventKind::Arrival), 1);
+  EXPECT_EQ(o.lineage.tenures.size(), 2u);
+}
+
 // A bud's first frame is read uncertainly: a small ratio the unbudded spread also
 // covers, and the classifier leaning to a single cell. The path waited for the
 // unambiguous second frame (0 of 12 buds on time); the bud's own posterior puts it
