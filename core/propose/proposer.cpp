@@ -193,6 +193,26 @@ void forbidStates(const CycleModel& model, std::vector<double>& emission, int fr
             -std::numeric_limits<double>::infinity();
 }
 
+// Decodes again with the states `forbidden(s)` forbidden over frames [from, to) and
+// keeps the new path if `accept(newPath)`; else the old path and emission table stay.
+template <typename Pred, typename Accept>
+void redecodeIf(const CycleModel& model, std::vector<double>& emission, int T,
+                std::vector<int>& path, int from, int to, Pred forbidden, Accept accept) {
+  const auto S = static_cast<std::size_t>(model.stateCount());
+  const auto first =
+      emission.begin() + static_cast<std::ptrdiff_t>(static_cast<std::size_t>(from) * S);
+  const auto last =
+      emission.begin() + static_cast<std::ptrdiff_t>(static_cast<std::size_t>(to) * S);
+  const std::vector<double> kept(first, last);
+  forbidStates(model, emission, from, to, forbidden);
+  std::vector<int> again = model.hmm().viterbi(emission, T);
+  if (accept(again)) {
+    path = std::move(again);
+    return;
+  }
+  std::copy(kept.begin(), kept.end(), first);
+}
+
 // Frames that show nothing (defocus, a failed registration) cannot show a mother leave,
 // die or arrive. Through a long run of them the path still took her away and brought a
 // "newcomer" back (a 40-frame gap split a steady mother's record at a washout and an
@@ -320,67 +340,6 @@ void mergeCorpseFlickers(const CycleModel& model, const std::vector<float>& pDea
   }
 }
 
-// A mother the path calls dead, followed within kReturnMin by a "newcomer" at least as
-// large as she was, is the same mother: replicative ageing enlarges a mother and
-// mothers die old, while the cells the flow carries into an emptied trap are mostly
-// young daughters from upstream (common practice). A mother read oddly for a while (a
-// crowd, a lingering daughter cutting her outline, contrast drifting with focus) looked
-// dead to the path, which then had her "re-arrive" once her cycles showed again. On two
-// simulated sweeps (seeds 9801-9830, 9901-9930) the engine called 92 death-arrival pairs
-// where the truth had neither; in 76 of them the newcomer's median area over her first
-// frames was at least her predecessor's over her last, against 2 of the 20 true pairs
-// (docs/validation.md). Such a pair is decoded again with the trap forbidden to stand
-// empty from the death to the end of the newcomer's stretch: one mother living
-// throughout, or a corpse that stays, whichever the evidence prefers.
-constexpr double kReturnMin = 360;
-constexpr int kSizeFrames = 8;
-
-// The median of the mother's log area over up to kSizeFrames informative frames from
-// `from` on, stepping by `step`, while the path holds a live mother; NaN if fewer than
-// three were read.
-double liveLogArea(const CycleModel& model, const TrapEvidence& evidence,
-                   const std::vector<int>& path, int from, int step) {
-  std::vector<double> v;
-  const int T = static_cast<int>(path.size());
-  for (int t = from; t >= 0 && t < T && model.isLive(path[static_cast<std::size_t>(t)]) &&
-                     static_cast<int>(v.size()) < kSizeFrames;
-       t += step) {
-    const FrameEvidence& e = evidence[static_cast<std::size_t>(t)];
-    if (e.informative && isKnown(e.morph[kMorphLogArea])) v.push_back(e.morph[kMorphLogArea]);
-  }
-  if (v.size() < 3) return kMissing;
-  std::nth_element(v.begin(), v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2), v.end());
-  return v[v.size() / 2];
-}
-
-void rejoinReturningMothers(const CycleModel& model, const TrapEvidence& evidence,
-                            std::vector<double>& emission, int T, std::vector<int>& path) {
-  const int reach =
-      std::max(1, static_cast<int>(std::lround(kReturnMin / model.params().intervalMin)));
-  auto state = [&](int t) { return path[static_cast<std::size_t>(t)]; };
-  constexpr int kMaxRounds = 4;
-  for (int round = 0; round < kMaxRounds; ++round) {
-    bool changed = false;
-    for (int t = 1; t < T; ++t) {
-      if (!model.isLive(state(t - 1)) || !model.isDead(state(t))) continue;
-      int arrival = t;
-      while (arrival < T && !model.isLive(state(arrival))) ++arrival;
-      if (arrival >= T || arrival - t > reach) continue;
-      const double before = liveLogArea(model, evidence, path, t - 1, -1);
-      const double after = liveLogArea(model, evidence, path, arrival, +1);
-      if (!isKnown(before) || !isKnown(after) || after < before) continue;
-      int end = arrival;
-      while (end < T && model.isLive(state(end))) ++end;
-      forbidStates(model, emission, t, end,
-                   [&](int s) { return model.group(s) == StateGroup::Empty; });
-      changed = true;
-      t = end;
-    }
-    if (!changed) return;
-    path = model.hmm().viterbi(emission, T);
-  }
-}
-
 // Frames entering a just-separated state in a decoded path, in runs of one living mother.
 std::vector<std::vector<int>> separationRuns(const CycleModel& model,
                                              const std::vector<int>& path) {
@@ -432,21 +391,76 @@ bool sameTenures(const CycleModel& model, const std::vector<int>& a, const std::
 template <typename Pred>
 void redecodeIfCountChanges(const CycleModel& model, std::vector<double>& emission, int T,
                             std::vector<int>& path, int from, int to, Pred forbidden, int change) {
-  const auto S = static_cast<std::size_t>(model.stateCount());
-  const auto first =
-      emission.begin() + static_cast<std::ptrdiff_t>(static_cast<std::size_t>(from) * S);
-  const auto last =
-      emission.begin() + static_cast<std::ptrdiff_t>(static_cast<std::size_t>(to) * S);
-  const std::vector<double> kept(first, last);
-  forbidStates(model, emission, from, to, forbidden);
-  std::vector<int> again = model.hmm().viterbi(emission, T);
   const auto before = static_cast<long>(separationCount(model, path));
-  if (static_cast<long>(separationCount(model, again)) - before == change &&
-      sameTenures(model, path, again)) {
-    path = std::move(again);
-    return;
+  redecodeIf(model, emission, T, path, from, to, forbidden, [&](const std::vector<int>& again) {
+    return static_cast<long>(separationCount(model, again)) - before == change &&
+           sameTenures(model, path, again);
+  });
+}
+
+// A mother the path calls dead, followed within kReturnMin by a "newcomer" at least as
+// large as she was, is the same mother: replicative ageing enlarges a mother and
+// mothers die old, while the cells the flow carries into an emptied trap are mostly
+// young daughters from upstream (common practice). A mother read oddly for a while (a
+// crowd, a lingering daughter cutting her outline, contrast drifting with focus) looked
+// dead to the path, which then had her "re-arrive" once her cycles showed again. On two
+// simulated sweeps (seeds 9801-9830, 9901-9930) the engine called 92 death-arrival pairs
+// where the truth had neither; in 76 of them the newcomer's median area over her first
+// frames was at least her predecessor's over her last, against 2 of the 20 true pairs
+// (docs/validation.md). Such a pair is decoded again with the trap forbidden to stand
+// empty from the death to the end of the newcomer's stretch, and the new path is kept
+// if the mother lives throughout. (Left free, the path could instead keep a corpse
+// there through all the newcomer's cycles, and a whole tenure's divisions were lost.)
+constexpr double kReturnMin = 360;
+constexpr int kSizeFrames = 8;
+
+// The median of the mother's log area over up to kSizeFrames informative frames from
+// `from` on, stepping by `step`, while the path holds a live mother; NaN if fewer than
+// three were read.
+double liveLogArea(const CycleModel& model, const TrapEvidence& evidence,
+                   const std::vector<int>& path, int from, int step) {
+  std::vector<double> v;
+  const int T = static_cast<int>(path.size());
+  for (int t = from; t >= 0 && t < T && model.isLive(path[static_cast<std::size_t>(t)]) &&
+                     static_cast<int>(v.size()) < kSizeFrames;
+       t += step) {
+    const FrameEvidence& e = evidence[static_cast<std::size_t>(t)];
+    if (e.informative && isKnown(e.morph[kMorphLogArea])) v.push_back(e.morph[kMorphLogArea]);
   }
-  std::copy(kept.begin(), kept.end(), first);
+  if (v.size() < 3) return kMissing;
+  std::nth_element(v.begin(), v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2), v.end());
+  return v[v.size() / 2];
+}
+
+void rejoinReturningMothers(const CycleModel& model, const TrapEvidence& evidence,
+                            std::vector<double>& emission, int T, std::vector<int>& path) {
+  const int reach =
+      std::max(1, static_cast<int>(std::lround(kReturnMin / model.params().intervalMin)));
+  auto state = [&](int t) { return path[static_cast<std::size_t>(t)]; };
+  int from = 1;  // pairs that die before this frame were tried
+  constexpr int kMaxPairs = 8;
+  for (int pair = 0; pair < kMaxPairs; ++pair) {
+    int death = -1, end = -1;
+    for (int t = from; t < T && death < 0; ++t) {
+      if (!model.isLive(state(t - 1)) || !model.isDead(state(t))) continue;
+      int arrival = t;
+      while (arrival < T && !model.isLive(state(arrival))) ++arrival;
+      if (arrival >= T || arrival - t > reach) continue;
+      const double before = liveLogArea(model, evidence, path, t - 1, -1);
+      const double after = liveLogArea(model, evidence, path, arrival, +1);
+      if (!isKnown(before) || !isKnown(after) || after < before) continue;
+      death = t;
+      for (end = arrival; end < T && model.isLive(state(end));) ++end;
+    }
+    if (death < 0) return;
+    from = death + 1;
+    redecodeIf(
+        model, emission, T, path, death, end,
+        [&](int s) { return model.group(s) == StateGroup::Empty; },
+        [&](const std::vector<int>& again) {
+          return separationCount(model, again) >= separationCount(model, path);
+        });
+  }
 }
 
 // How many rounds of forcing or forbidding a separation a trap gets.
