@@ -408,9 +408,10 @@ void redecodeIfCountChanges(const CycleModel& model, std::vector<double>& emissi
 // where the truth had neither; in 76 of them the newcomer's median area over her first
 // frames was at least her predecessor's over her last, against 2 of the 20 true pairs
 // (docs/validation.md). Such a pair is decoded again with the trap forbidden to stand
-// empty from the death to the end of the newcomer's stretch, and the new path is kept
-// if the mother lives throughout. (Left free, the path could instead keep a corpse
-// there through all the newcomer's cycles, and a whole tenure's divisions were lost.)
+// empty from the death to the end of the newcomer's stretch: one mother living
+// throughout, or a corpse staying through it. The new path is kept only if the trap's
+// separation count does not fall (on one sweep seed the re-decoded trap kept a corpse
+// through 13 of a living mother's cycles).
 constexpr double kReturnMin = 360;
 constexpr int kSizeFrames = 8;
 
