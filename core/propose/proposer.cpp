@@ -213,6 +213,11 @@ void redecodeIf(const CycleModel& model, std::vector<double>& emission, int T,
   std::copy(kept.begin(), kept.end(), first);
 }
 
+// What a state says the trap holds: a live mother (0), a dead one (1) or nobody (2).
+int tenureKind(const CycleModel& model, int state) {
+  return model.isLive(state) ? 0 : model.isDead(state) ? 1 : 2;
+}
+
 // Frames that show nothing (defocus, a failed registration) cannot show a mother leave,
 // die or arrive. Through a long run of them the path still took her away and brought a
 // "newcomer" back (a 40-frame gap split a steady mother's record at a washout and an
@@ -230,7 +235,7 @@ void holdTenuresThroughGaps(const CycleModel& model, const TrapEvidence& evidenc
                             std::vector<double>& emission, int T, std::vector<int>& path) {
   const int longGap =
       std::max(2, static_cast<int>(std::lround(kLongGapMin / model.params().intervalMin)));
-  auto holds = [&](int s) { return model.isLive(s) ? 0 : model.isDead(s) ? 1 : 2; };
+  auto holds = [&](int s) { return tenureKind(model, s); };
   constexpr int kMaxRounds = 4;
   for (int round = 0; round < kMaxRounds; ++round) {
     bool changed = false;
@@ -377,9 +382,8 @@ int localCycle(const std::vector<int>& seps, std::size_t skipFrom, std::size_t s
 
 // Whether two paths hold a live mother, a dead one or an empty trap in the same frames.
 bool sameTenures(const CycleModel& model, const std::vector<int>& a, const std::vector<int>& b) {
-  auto holds = [&](int s) { return model.isLive(s) ? 0 : model.isDead(s) ? 1 : 2; };
   for (std::size_t t = 0; t < a.size(); ++t)
-    if (holds(a[t]) != holds(b[t])) return false;
+    if (tenureKind(model, a[t]) != tenureKind(model, b[t])) return false;
   return true;
 }
 
