@@ -12,6 +12,7 @@
 #include <utility>
 
 #include "budledger/version.h"
+#include "core/base/median.h"
 #include "core/base/parallel_for.h"
 #include "core/measure/background.h"
 #include "core/measure/background_search.h"
@@ -24,13 +25,6 @@ namespace {
 // while it is smaller than this share of her area (a bud that grows on against the
 // neighbour passes it within a frame or two).
 constexpr double kSeamArea = 0.15;
-
-double median(std::vector<double> v) {
-  if (v.empty()) return 0;
-  auto mid = v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2);
-  std::nth_element(v.begin(), mid, v.end());
-  return *mid;
-}
 
 Occupancy argmaxOccupancy(const measure::ClassProbabilities& p) {
   return static_cast<Occupancy>(std::max_element(p.begin(), p.end()) - p.begin());
@@ -195,7 +189,7 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
   });
   std::vector<double> noises;
   for (const auto& v : trapNoises) noises.insert(noises.end(), v.begin(), v.end());
-  const double noise = std::max(1e-9, median(noises));
+  const double noise = std::max(1e-9, upperMedian(noises));
   // Every other sample is plenty for the outline sign and the seat (they pool all traps).
   std::vector<measure::OutlineAreas> trapAreas(N);
   parallelFor(N, options.threads, [&](std::size_t i) {
@@ -248,9 +242,10 @@ EngineResult runEngine(const EngineInputs& in, const EngineOptions& options,
         seatY.push_back(m[2]);
       }
     if (motherAreas.size() < 5) break;
-    seg.motherRadiusPx = std::clamp(std::sqrt(median(motherAreas) / std::numbers::pi),
+    seg.motherRadiusPx = std::clamp(std::sqrt(upperMedian(motherAreas) / std::numbers::pi),
                                     0.6 * startRadius, 1.6 * startRadius);
-    const double dx = median(seatX) - seatGeometry.cupX, dy = median(seatY) - seatGeometry.cupY;
+    const double dx = upperMedian(seatX) - seatGeometry.cupX,
+                 dy = upperMedian(seatY) - seatGeometry.cupY;
     const double move = std::hypot(dx, dy);
     if (move >= 1.5 * seg.motherRadiusPx) break;
     seatGeometry.cupX += dx;

@@ -7,6 +7,7 @@
 #include <stdexcept>
 #include <thread>
 
+#include "core/base/median.h"
 #include "core/base/parallel_for.h"
 
 namespace budledger::propose {
@@ -375,9 +376,7 @@ int localCycle(const std::vector<int>& seps, std::size_t skipFrom, std::size_t s
   for (std::size_t j = first; j + 1 < seps.size() && j <= skipTo + kNeighbours; ++j)
     if (j < skipFrom || j > skipTo) around.push_back(seps[j + 1] - seps[j]);
   if (around.size() < 2) return 0;
-  const auto mid = around.begin() + static_cast<std::ptrdiff_t>(around.size() / 2);
-  std::nth_element(around.begin(), mid, around.end());
-  return *mid;
+  return upperMedian(std::move(around));
 }
 
 // Whether two paths hold a live mother, a dead one or an empty trap in the same frames.
@@ -433,8 +432,7 @@ double liveLogArea(const CycleModel& model, const TrapEvidence& evidence,
     if (e.informative && isKnown(e.morph[kMorphLogArea])) v.push_back(e.morph[kMorphLogArea]);
   }
   if (v.size() < 3) return kMissing;
-  std::nth_element(v.begin(), v.begin() + static_cast<std::ptrdiff_t>(v.size() / 2), v.end());
-  return v[v.size() / 2];
+  return upperMedian(std::move(v));
 }
 
 void rejoinReturningMothers(const CycleModel& model, const TrapEvidence& evidence,

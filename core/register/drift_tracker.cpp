@@ -5,6 +5,8 @@
 
 #include <opencv2/imgproc.hpp>
 
+#include "core/base/median.h"
+
 namespace budledger::registration {
 namespace {
 // A frame filled in from its neighbours was not measured: never more than this.
@@ -18,21 +20,13 @@ constexpr int kReduce = 2;
 cv::Mat reduce(const cv::Mat& image) {
   cv::Mat f, small;
   image.convertTo(f, CV_32F);
-  cv::resize(f, small, cv::Size(image.cols / kReduce, image.rows / kReduce), 0, 0,
-             cv::INTER_AREA);
+  cv::resize(f, small, cv::Size(image.cols / kReduce, image.rows / kReduce), 0, 0, cv::INTER_AREA);
   // Band-pass: noise out, and the illumination, which stays with the camera while the
   // chip moves, out too.
   cv::Mat fine, broad;
   cv::GaussianBlur(small, fine, cv::Size(0, 0), 1.0);
   cv::GaussianBlur(small, broad, cv::Size(0, 0), 8.0);
   return fine - broad;
-}
-
-double median(std::vector<double> v) {
-  if (v.empty()) return 0;
-  const auto mid = v.begin() + static_cast<long>(v.size() / 2);
-  std::nth_element(v.begin(), mid, v.end());
-  return *mid;
 }
 }  // namespace
 
@@ -48,7 +42,7 @@ void DriftTracker::add(int frame, const cv::Mat& image) {
   raw_.push_back(m);
   // Only a convincing measurement moves the prediction: a blurred or
   // flickering frame must not drag the search away from the chip.
-  const double typical = median(recentMatches_);
+  const double typical = upperMedian(recentMatches_);
   const bool trusted = recentMatches_.size() < 3 || quality >= options_.failFraction * typical;
   if (trusted) {
     prediction_ = m.shift;
@@ -96,8 +90,7 @@ Measurement DriftTracker::resolveAlias(const cv::Mat& image, const Measurement& 
 // if this frame's shift is `shift`: both then show the same chip point at the same
 // place, so this frame at y matches the previous one at y - (shift - previousShift).
 // -1 when they barely overlap.
-double DriftTracker::agreement(const cv::Mat& now, const cv::Mat& before,
-                               cv::Point2d shift) const {
+double DriftTracker::agreement(const cv::Mat& now, const cv::Mat& before, cv::Point2d shift) const {
   const cv::Point2d d = (shift - previousShift_) / kReduce;
   const int dx = static_cast<int>(std::floor(d.x)), dy = static_cast<int>(std::floor(d.y));
   const cv::Rect frame(0, 0, now.cols, now.rows);
@@ -125,7 +118,7 @@ DriftTrack DriftTracker::finish() const {
     matches.push_back(m.correlation);
     focus.push_back(m.focus);
   }
-  const double medMatch = median(matches), medFocus = median(focus);
+  const double medMatch = upperMedian(matches), medFocus = upperMedian(focus);
   std::vector<bool> good(n);
   for (size_t i = 0; i < n; ++i) {
     const auto& m = raw_[i];
