@@ -435,8 +435,9 @@ TEST(EdgeCases, DeathThePosteriorDoesNotBackIsNotCalled) {
 // is missed for two frames, then buds on: the path called her dead and her return a
 // newcomer's arrival, splitting her record. A "newcomer" no smaller than the mother who
 // died is that mother; a smaller one (here 95% of her area) is a newcomer, and both her
-// predecessor's death and her arrival stand.
-Script lookedDeadAndCameBack(double logAreaAfter) {
+// predecessor's death and her arrival stand. `deadLookAfter`: how dead the cell after
+// the gap looks to the morphology score (0.05: plainly alive, as before the gap).
+Script lookedDeadAndCameBack(double logAreaAfter, double deadLookAfter = 0.05) {
   Script s;
   s.cycles(6);
   s.add(single(0.95), 12);
@@ -448,6 +449,7 @@ Script lookedDeadAndCameBack(double logAreaAfter) {
     if (s.ev[t].occupancy[kEmpty] > 0.5) continue;
     const double jitter = 0.02 * (static_cast<int>(t % 5) - 2);
     s.ev[t].morph = {0.0, 0.0, (static_cast<int>(t) < back ? 6.0 : logAreaAfter) + jitter};
+    if (static_cast<int>(t) >= back) s.ev[t].deadLook = deadLookAfter;
   }
   return s;
 }
@@ -458,6 +460,18 @@ TEST(EdgeCases, MotherBackFromALookOfDeathIsOneRecord) {
   EXPECT_EQ(o.count(EventKind::Arrival), 0);
   ASSERT_EQ(o.lineage.tenures.size(), 1u);
   EXPECT_NEAR(o.lineage.tenures[0].divisions, 12, 1);
+}
+
+// The cell after the gap also looks somewhat dead (score 0.7) while she buds. Decoded
+// as one mother, the path would rather keep a corpse through all her six cycles than
+// revive the mother who looked dead (one record of 5 divisions, her later six cycles
+// lost inside the corpse): a rejoin that loses divisions is not kept, and the death and
+// arrival stand.
+TEST(EdgeCases, RejoinThatLosesDivisionsIsNotKept) {
+  const auto o = decode(lookedDeadAndCameBack(6.0, 0.7).ev);
+  EXPECT_EQ(o.count(EventKind::Arrival), 1);
+  ASSERT_EQ(o.lineage.tenures.size(), 2u);
+  EXPECT_EQ(o.lineage.tenures[1].divisions, 6);  // her six cycles after the gap
 }
 
 TEST(EdgeCases, SmallerCellAfterADeathIsANewcomer) {
